@@ -1,0 +1,1 @@
+"""Hazard rules: setup + assessment + site rules -> findings and checklist items."""

@@ -1,0 +1,1 @@
+"""Figures for a whole setup: each module turns setup parts into physics-body calls."""

@@ -1,0 +1,128 @@
+"""Uniformly magnetized bodies as plain geometry, the common input of every physics module.
+
+A :class:`MagnetBody` holds only SI floats and arrays: no setup types, no units. The setup
+layer (``planner.setup``) builds them; the physics modules (fields, forces, zones,
+induction, eddy) take them.
+
+Body frame
+----------
+Each body has its own frame whose axes are the columns of ``rotation`` expressed in the
+global frame (so ``global_vector = rotation @ body_vector``). For cylinders and rings the
+body z axis is the symmetry axis; for blocks the body axes run along the three edges
+``size[0], size[1], size[2]``; for spheres the frame is irrelevant.
+
+References
+----------
+Polarization J = mu0 * M taken equal to the remanence Br (recoil permeability 1), as in
+Derby & Olbert, Am. J. Phys. 78, 229-235 (2010). Source: ../shared/reference/physics.md.
+"""
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+import numpy as np
+from scipy.constants import mu_0
+
+SHAPES = ("cylinder", "ring", "block", "sphere")
+
+
+@dataclass(frozen=True)
+class MagnetBody:
+    """One uniformly magnetized body.
+
+    Parameters
+    ----------
+    shape : {"cylinder", "ring", "block", "sphere"}
+    center : array (3,)
+        Centre of the body in the global frame [m].
+    rotation : array (3, 3)
+        Proper rotation; column i is body axis i in global coordinates [-].
+    polarization : array (3,)
+        J = mu0 M in the *global* frame [T]. Its magnitude is the remanence.
+    diameter : float
+        Outer diameter for cylinder, ring and sphere [m] (0 for blocks).
+    height : float
+        Length along the body z axis for cylinder and ring [m] (0 otherwise).
+    inner_diameter : float
+        Bore of a ring [m] (0 otherwise).
+    size : array (3,)
+        Edge lengths of a block along body x, y, z [m] (zeros otherwise).
+    """
+
+    shape: str
+    center: np.ndarray
+    rotation: np.ndarray
+    polarization: np.ndarray
+    diameter: float = 0.0
+    height: float = 0.0
+    inner_diameter: float = 0.0
+    size: np.ndarray = field(default_factory=lambda: np.zeros(3))
+
+    def __post_init__(self):
+        if self.shape not in SHAPES:
+            raise ValueError(f"unknown shape {self.shape!r}")
+        object.__setattr__(self, "center", np.asarray(self.center, dtype=float).reshape(3))
+        object.__setattr__(self, "rotation", np.asarray(self.rotation, dtype=float).reshape(3, 3))
+        object.__setattr__(self, "polarization", np.asarray(self.polarization, dtype=float).reshape(3))
+        object.__setattr__(self, "size", np.asarray(self.size, dtype=float).reshape(3))
+
+    @property
+    def axis(self) -> np.ndarray:
+        """Body z axis in global coordinates (symmetry axis of cylinders and rings) [-]."""
+        return self.rotation[:, 2]
+
+    @property
+    def polarization_body(self) -> np.ndarray:
+        """J expressed in the body frame [T]."""
+        return self.rotation.T @ self.polarization
+
+    @property
+    def volume(self) -> float:
+        """Volume [m^3]."""
+        if self.shape == "cylinder":
+            return np.pi * self.diameter**2 / 4 * self.height
+        if self.shape == "ring":
+            return np.pi * (self.diameter**2 - self.inner_diameter**2) / 4 * self.height
+        if self.shape == "block":
+            return float(np.prod(self.size))
+        return np.pi * self.diameter**3 / 6
+
+    @property
+    def moment(self) -> np.ndarray:
+        """Magnetic dipole moment m = J V / mu0 [A m^2]."""
+        return self.polarization * self.volume / mu_0
+
+    @property
+    def bounding_radius(self) -> float:
+        """Radius of the smallest centred sphere that holds the body [m]."""
+        if self.shape in ("cylinder", "ring"):
+            return float(np.hypot(self.diameter / 2, self.height / 2))
+        if self.shape == "block":
+            return float(np.linalg.norm(self.size) / 2)
+        return self.diameter / 2
+
+    def to_body(self, points: np.ndarray) -> np.ndarray:
+        """Global points (n, 3) [m] -> body-frame points (n, 3) [m]."""
+        return (np.asarray(points, dtype=float) - self.center) @ self.rotation
+
+    def to_global(self, vectors: np.ndarray) -> np.ndarray:
+        """Body-frame vectors (n, 3) -> global vectors (n, 3)."""
+        return np.asarray(vectors, dtype=float) @ self.rotation.T
+
+
+def rotation_from_axis(axis) -> np.ndarray:
+    """A proper rotation whose third column is the unit vector along ``axis``.
+
+    The first column is chosen deterministically (perpendicular to the axis and as close
+    to global x as possible, else global y), so the same axis always gives the same frame.
+
+    >>> R = rotation_from_axis([0, 0, 1]); bool(np.allclose(R, np.eye(3)))
+    True
+    """
+    z = np.asarray(axis, dtype=float)
+    z = z / np.linalg.norm(z)
+    ref = np.array([1.0, 0.0, 0.0]) if abs(z[0]) < 0.9 else np.array([0.0, 1.0, 0.0])
+    x = ref - z * (ref @ z)
+    x /= np.linalg.norm(x)
+    y = np.cross(z, x)
+    return np.column_stack([x, y, z])

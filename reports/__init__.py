@@ -1,0 +1,1 @@
+"""Reports: assessment + findings -> PDF checklist, terminal summary, JSON; fingerprint; sign-off register."""

@@ -126,3 +126,64 @@ def rotation_from_axis(axis) -> np.ndarray:
     x /= np.linalg.norm(x)
     y = np.cross(z, x)
     return np.column_stack([x, y, z])
+
+
+def inside(body: MagnetBody, points, margin: float = 0.0) -> np.ndarray:
+    """True for points strictly inside ``body`` shrunk by ``margin`` [m] on every face.
+
+    Parameters
+    ----------
+    body : MagnetBody
+    points : array (n, 3)
+        Global points [m].
+    margin : float
+        Distance [m] by which the body is shrunk first, so touching bodies do not count.
+    """
+    local = body.to_body(np.atleast_2d(points))
+    if body.shape in ("cylinder", "ring"):
+        rho = np.hypot(local[:, 0], local[:, 1])
+        result = (rho < body.diameter / 2 - margin) & (np.abs(local[:, 2]) < body.height / 2 - margin)
+        if body.shape == "ring":
+            result &= rho > body.inner_diameter / 2 + margin
+        return result
+    if body.shape == "block":
+        return np.all(np.abs(local) < body.size / 2 - margin, axis=1)
+    return np.linalg.norm(local, axis=1) < body.diameter / 2 - margin
+
+
+def sample_points(body: MagnetBody, per_axis: int = 9) -> np.ndarray:
+    """A regular grid of points inside ``body`` (n, 3) [m], for overlap and clearance checks."""
+    t = (np.arange(per_axis) + 0.5) / per_axis * 2 - 1  # cell centres in (-1, 1)
+    u, v, w = np.meshgrid(t, t, t, indexing="ij")
+    unit = np.column_stack([u.ravel(), v.ravel(), w.ravel()])
+    if body.shape in ("cylinder", "ring"):
+        local = unit * np.array([body.diameter / 2, body.diameter / 2, body.height / 2])
+    elif body.shape == "block":
+        local = unit * body.size / 2
+    else:
+        local = unit * body.diameter / 2
+    points = local @ body.rotation.T + body.center
+    return points[inside(body, points)]
+
+
+def surface_extent_across(body: MagnetBody, axis, samples: int = 720) -> float:
+    """Largest distance [m] of the body from a line through its centre along ``axis``.
+
+    This is the radius of the smallest bore, coaxial with ``axis`` and centred on the body,
+    through which the body passes (used for coil and tube clearance).
+    """
+    axis = np.asarray(axis, dtype=float) / np.linalg.norm(axis)
+    if body.shape == "sphere":
+        return body.diameter / 2
+    if body.shape == "block":
+        signs = np.array([[sx, sy, sz] for sx in (-1, 1) for sy in (-1, 1) for sz in (-1, 1)], dtype=float)
+        corners = (signs * body.size / 2) @ body.rotation.T
+    else:
+        phi = np.linspace(0, 2 * np.pi, samples, endpoint=False)
+        rim = np.column_stack([np.cos(phi), np.sin(phi), np.zeros_like(phi)]) * body.diameter / 2
+        top, bottom = rim.copy(), rim.copy()
+        top[:, 2], bottom[:, 2] = body.height / 2, -body.height / 2
+        corners = np.vstack([top, bottom]) @ body.rotation.T
+    across = corners - np.outer(corners @ axis, axis)
+    # The rim is sampled; the chord error is below r (1 - cos(pi / samples)), added to stay safe.
+    return float(np.max(np.linalg.norm(across, axis=1)) * (1 + (1 - np.cos(np.pi / samples))))

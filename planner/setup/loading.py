@@ -36,7 +36,7 @@ class SetupError(ValueError):
     """A setup file that cannot be used; ``problems`` lists every problem found, each with its line."""
 
     def __init__(self, problems: list[Problem], source: str | None = None):
-        self.problems = list(problems)
+        self.problems = sorted(problems, key=lambda p: (p.line or 0))
         self.source = source
         super().__init__(self.summary())
 

@@ -125,20 +125,22 @@ def new(out: Path | None, force: bool) -> None:
     click.echo(f"wrote {out}; edit it, then run: benchplan check {out}")
 
 
-def _register_optional_commands() -> None:
+def _register_commands() -> None:
     """Commands that live in their own modules, to keep this file a list of thin verbs."""
-    from planner import cli_field
+    import importlib
 
-    main.add_command(cli_field.field)
-    try:
-        from planner import cli_assess
-    except ImportError:
-        return
-    for command in cli_assess.COMMANDS:
-        main.add_command(command)
+    for module_name in ("planner.cli_field", "planner.cli_assess", "planner.cli_report"):
+        try:
+            module = importlib.import_module(module_name)
+        except ModuleNotFoundError as error:
+            if error.name != module_name:
+                raise
+            continue  # a verb still being written is simply absent
+        for command in module.COMMANDS:
+            main.add_command(command)
 
 
-_register_optional_commands()
+_register_commands()
 
 
 if __name__ == "__main__":  # pragma: no cover

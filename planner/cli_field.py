@@ -126,3 +126,6 @@ def _span(text: str) -> tuple[float, float]:
     if not high > low:
         raise UserInputError(f"--span must go from low to high; got `{text}`")
     return low, high
+
+
+COMMANDS = [field]

@@ -1,0 +1,67 @@
+"""The largest distance at which a decreasing-with-distance quantity still exceeds a level.
+
+References
+----------
+R. P. Brent, *Algorithms for Minimization without Derivatives*, Prentice-Hall (1973),
+ch. 4 (the root bracketing used through :func:`scipy.optimize.brentq`).
+"""
+from __future__ import annotations
+
+import numpy as np
+from scipy.optimize import brentq
+
+
+def largest_exceeding(function, level: float, search_limit: float, smallest: float = 0.0,
+                      samples: int = 48, xtol: float = 1e-9) -> float:
+    """Largest x in [smallest, inf) where ``function(x) > level``.
+
+    Parameters
+    ----------
+    function : callable
+        Scalar function of a distance [m].
+    level : float
+        The level to exceed (same unit as ``function``).
+    search_limit : float
+        Upper end of the first scan [m]; doubled (up to 40 times) while the function still
+        exceeds the level there.
+    smallest : float
+        Lower end [m].
+    samples : int
+        Points of the geometric scan between ``smallest`` and ``search_limit``.
+    xtol : float
+        Absolute tolerance of the final root [m].
+
+    Returns
+    -------
+    float
+        The distance [m]; 0.0 when even ``function(smallest)`` does not exceed the level,
+        inf when it still does after 40 doublings of ``search_limit``.
+
+    Notes
+    -----
+    Scans a geometric grid (fine near ``smallest``, where magnetic forces change fastest),
+    takes the last grid point above the level and refines the crossing after it with
+    Brent's method. A larger level can only give a smaller or equal result when the
+    function decreases with distance past its last crossing.
+
+    Examples
+    --------
+    >>> round(largest_exceeding(lambda x: 1 / (1 + x) ** 4, 1 / 16, 10.0), 9)
+    1.0
+    """
+    if not function(smallest) > level:
+        return 0.0
+    high = float(search_limit)
+    for _ in range(40):
+        if not function(high) > level:
+            break
+        high *= 2
+    else:
+        return float("inf")
+    start = smallest if smallest > 0 else high * 1e-4
+    grid = np.concatenate([[smallest], np.geomspace(start, high, samples)])
+    values = np.array([function(x) for x in grid])
+    above = np.nonzero(values > level)[0]
+    last = above[-1]
+    return float(brentq(lambda x: function(x) - level, grid[last], grid[last + 1], xtol=xtol,
+                        rtol=1e-12))

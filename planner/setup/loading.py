@@ -2,7 +2,8 @@
 
 Safety limits (refused with a clear message before any object is built): files over 1 MB,
 nesting deeper than 40 levels, and YAML anchors/aliases (which allow expansion bombs and
-are never needed in a setup file). Only ``yaml.safe_load`` builds Python objects.
+are never needed in a setup file). Only a ``yaml.SafeLoader`` (subclassed to report bad
+scalars with their line) builds Python objects.
 """
 from __future__ import annotations
 
@@ -95,6 +96,33 @@ class LineIndex:
         return self._lines.get(())
 
 
+class _SetupLoader(yaml.SafeLoader):
+    """``yaml.SafeLoader`` that never lets a bad scalar escape as a bare ``ValueError``.
+
+    An impossible date such as ``2027-02-30`` is kept as text, so the schema reports it with
+    its key path and line; any other scalar that cannot be built (``!!int abc``,
+    ``!!float x``) becomes a YAML error carrying the line of the value.
+    """
+
+    def construct_object(self, node, deep=False):
+        try:
+            return super().construct_object(node, deep=deep)
+        except (ValueError, TypeError, AttributeError, OverflowError) as error:
+            raise yaml.constructor.ConstructorError(
+                None, None, f"cannot read the value `{getattr(node, 'value', '')}` ({error})",
+                node.start_mark) from None
+
+
+def _timestamp_or_text(loader: yaml.SafeLoader, node: yaml.Node):
+    try:
+        return yaml.constructor.SafeConstructor.construct_yaml_timestamp(loader, node)
+    except (ValueError, TypeError, AttributeError, OverflowError):
+        return loader.construct_scalar(node)
+
+
+_SetupLoader.add_constructor("tag:yaml.org,2002:timestamp", _timestamp_or_text)
+
+
 def _check_structure(text: str) -> list[Problem]:
     """Refuse aliases and deep nesting by scanning parser events (no objects are built)."""
     depth = 0
@@ -130,7 +158,7 @@ def read_document(text: str) -> tuple[Any, LineIndex]:
         raise SetupError(problems)
     try:
         root = yaml.compose(text, Loader=yaml.SafeLoader)
-        data = yaml.safe_load(text)
+        data = yaml.load(text, Loader=_SetupLoader)  # noqa: S506 - a SafeLoader subclass
     except yaml.YAMLError as error:
         raise SetupError([_yaml_problem(error)]) from None
     except RecursionError:
@@ -160,7 +188,7 @@ def _normalise_location(loc: tuple, data: Any) -> tuple | None:
         elif isinstance(current, list) and isinstance(part, int) and 0 <= part < len(current):
             path.append(part)
             current = current[part]
-        elif part == "str":
+        elif part in ("str", "constrained-str"):
             if not isinstance(current, str):
                 return None
         elif part == "SiteRules":
@@ -177,7 +205,7 @@ def _normalise_location(loc: tuple, data: Any) -> tuple | None:
 # Tags of discriminated unions and names of union members that pydantic puts in locations.
 _UNION_TAGS = {"cylinder", "ring", "block", "sphere", "rod", "plate", "tube", "sheet", "meter", "load", "supply",
                "pass_through_coil", "drop_through_tube", "swing_over_sheet", "crank_generator", "bring_together",
-               "ship_package", "couple_coils", "switch_off", "SiteRules", "str"}
+               "ship_package", "couple_coils", "switch_off", "SiteRules", "str", "constrained-str"}
 
 
 def problems_from_validation(error: ValidationError, data: Any, index: LineIndex, model) -> list[Problem]:

@@ -63,7 +63,7 @@ def _check_magnets(setup, add) -> None:
             add(loc, "needs a `grade` (e.g. N42) or a `remanence` (e.g. `1.3 T`)")
         if magnet.grade is not None and materials.find_grade(magnet.grade) is None:
             close = materials.nearest_names(magnet.grade, materials.grades())
-            hint = f"; did you mean {', '.join(f'`{c}`' for c in close)}?" if close else ""
+            hint = f"; did you mean {', '.join(f'`{c}`' for c in close)}?" if close else "."
             others = ", ".join(n for n in materials.grades() if not n.startswith("N"))
             add(loc + ("grade",), f"`{magnet.grade}` is not a known grade{hint} Known: {_ndfeb_summary()}; {others}")
         if magnet.remanence is not None and magnet.remanence > limit:
@@ -88,7 +88,7 @@ def _check_materials(setup, add) -> None:
         elif part.material is not None and materials.find_conductor(part.material) is None:
             names = list(materials.conductors())
             close = materials.nearest_names(part.material, names)
-            hint = f"; did you mean `{close[0]}`?" if close else ""
+            hint = f"; did you mean `{close[0]}`?" if close else "."
             add(loc + ("material",), f"`{part.material}` is not a known conductor{hint} Known: {', '.join(names)}")
         if isinstance(part, model.Tube) and part.inner_diameter >= part.outer_diameter:
             add(loc + ("inner_diameter",), "must be smaller than `outer_diameter`")
@@ -98,7 +98,7 @@ def _check_steel_name(name, loc, add) -> None:
     if materials.find_steel(name) is None:
         names = list(materials.steels())
         close = materials.nearest_names(name, names)
-        hint = f"; did you mean `{close[0]}`?" if close else ""
+        hint = f"; did you mean `{close[0]}`?" if close else "."
         add(loc, f"`{name}` is not a known steel{hint} Known: {', '.join(names)}")
 
 

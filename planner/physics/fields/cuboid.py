@@ -116,16 +116,17 @@ def _block_field_block(points, half, polarization):
         for pair in pairs:
             value = np.log(products[pair][0] / products[pair][1]) / _FOUR_PI
             offdiagonal[pair] = value * signs[:, pair[0]] * signs[:, pair[1]]
-    inside = np.ones(count)
-    for axis in range(3):
-        inside *= np.heaviside(half[axis] - folded[:, axis], 0.5)
-    field = np.zeros_like(points)
-    for axis in diagonal_axes:
-        field[:, axis] += (diagonal[axis] / _FOUR_PI + inside) * polarization[axis]
-    for first, second in pairs:
-        field[:, first] += offdiagonal[(first, second)] * polarization[second]
-        field[:, second] += offdiagonal[(first, second)] * polarization[first]
-    field[~np.all(np.isfinite(field), axis=1)] = np.nan
+    with np.errstate(invalid="ignore"):  # NaN rows (edges) are expected here
+        inside = np.ones(count)
+        for axis in range(3):
+            inside *= np.heaviside(half[axis] - folded[:, axis], 0.5)
+        field = np.zeros_like(points)
+        for axis in diagonal_axes:
+            field[:, axis] += (diagonal[axis] / _FOUR_PI + inside) * polarization[axis]
+        for first, second in pairs:
+            field[:, first] += offdiagonal[(first, second)] * polarization[second]
+            field[:, second] += offdiagonal[(first, second)] * polarization[first]
+        field[~np.all(np.isfinite(field), axis=1)] = np.nan
     return field
 
 

@@ -182,7 +182,8 @@ def radial_field(magnet: AxialMagnet, radius, axial_offset):
     return field
 
 
-def flux_from_field(field, center, normal, radius, radial_nodes=16, angular_nodes=32):
+def flux_from_field(field, center, normal, radius, radial_nodes=16, angular_nodes=32,
+                    radial_breaks=()):
     """Flux of any field through a disc, by quadrature [Wb].
 
     Parameters
@@ -196,12 +197,17 @@ def flux_from_field(field, center, normal, radius, radial_nodes=16, angular_node
     radius : float
         Radius of the disc [m].
     radial_nodes, angular_nodes : int
-        Gauss-Legendre nodes in radius, trapezoid nodes in angle [-].
+        Gauss-Legendre nodes in radius (per panel), trapezoid nodes in angle [-].
+    radial_breaks : sequence of float
+        Radii where the field jumps (where the disc cuts a magnet's side) [m]; the radial
+        rule is split there.
 
     Notes
     -----
     ``Phi = int_0^a int_0^2pi B.n r dphi dr``. The trapezoid rule is spectrally accurate in the
-    periodic angle; accuracy falls when a magnet's edge passes within a node spacing of the disc.
+    periodic angle. Inside a magnet B jumps at its surface: where the disc cuts a magnet,
+    give the jump radii as ``radial_breaks`` (coaxial bodies), or expect the error to fall
+    only slowly with the node counts.
 
     References
     ----------
@@ -214,8 +220,11 @@ def flux_from_field(field, center, normal, radius, radial_nodes=16, angular_node
     first /= np.linalg.norm(first)
     second = np.cross(normal, first)
     x, w = roots_legendre(radial_nodes)
-    r = radius * (x + 1.0) / 2.0
-    weight_r = radius / 2.0 * w * r
+    edges = np.unique(np.clip([0.0, radius, *radial_breaks], 0.0, radius))
+    lo, hi = edges[:-1, None], edges[1:, None]
+    r = ((lo + hi) / 2.0 + (hi - lo) / 2.0 * x).ravel()
+    weight_r = ((hi - lo) / 2.0 * w).ravel() * r
+    radial_nodes = len(r)
     phi = 2.0 * np.pi * np.arange(angular_nodes) / angular_nodes
     directions = np.outer(np.cos(phi), first) + np.outer(np.sin(phi), second)
     points = np.asarray(center, dtype=float) + r[:, None, None] * directions[None, :, :]
@@ -223,7 +232,8 @@ def flux_from_field(field, center, normal, radius, radial_nodes=16, angular_node
     return float(np.sum(weight_r[:, None] * (b @ normal)) * 2.0 * np.pi / angular_nodes)
 
 
-def flux_from_bodies(bodies, center, normal, radius, radial_nodes=16, angular_nodes=32):
+def flux_from_bodies(bodies, center, normal, radius, radial_nodes=16, angular_nodes=32,
+                     radial_breaks=()):
     """Flux of a set of magnets of any shape and place through a disc [Wb].
 
     Uses ``planner.physics.fields.field_of_bodies`` and :func:`flux_from_field`; see there.
@@ -235,4 +245,4 @@ def flux_from_bodies(bodies, center, normal, radius, radial_nodes=16, angular_no
     from planner.physics.fields import field_of_bodies
 
     return flux_from_field(lambda points: field_of_bodies(bodies, points), center, normal,
-                           radius, radial_nodes, angular_nodes)
+                           radius, radial_nodes, angular_nodes, radial_breaks)

@@ -1,0 +1,195 @@
+"""General charge-model forces, torques, energies and the image method.
+
+Each check names its source: physical identities (Newton's third law, balance of angular
+momentum, F = -grad U, the exterior field of a uniformly magnetized sphere is a dipole's),
+the point-dipole force and torque (physics reference sheet, sec. 1-2), and magpylib's meshed
+force (test-only reference library, magpylib.getFT).
+"""
+from dataclasses import replace
+
+import numpy as np
+import pytest
+from scipy.constants import mu_0
+
+from planner.physics.bodies import MagnetBody, rotation_from_axis
+from planner.physics.fields import field_of_body
+from planner.physics.forces import (coaxial_cylinders_axial_force, force_and_torque,
+                                    force_and_torque_by_charges, interaction_energy,
+                                    mirror_in_plane, plate_saturation_check,
+                                    steel_surface_force_and_torque)
+
+TILT = rotation_from_axis([1.0, 0.3, 1.0])
+PAIRS = {
+    "block-tilted cylinder": (
+        MagnetBody("block", [0, 0, 0], np.eye(3), [0, 0, 1.2], size=[10e-3, 6e-3, 5e-3]),
+        MagnetBody("cylinder", [2e-3, 1e-3, 8e-3], TILT, 1.1 * TILT[:, 0], diameter=6e-3, height=4e-3)),
+    "ring-sphere": (
+        MagnetBody("ring", [0, 0, 0], np.eye(3), [0.3, 0, 1.2], diameter=12e-3, inner_diameter=5e-3, height=4e-3),
+        MagnetBody("sphere", [3e-3, -2e-3, 9e-3], np.eye(3), [0.5, 0.2, -1.0], diameter=6e-3)),
+    "diametral cylinder-block": (
+        MagnetBody("cylinder", [0, 0, 0], TILT, 1.3 * TILT[:, 1], diameter=8e-3, height=10e-3),
+        MagnetBody("block", [11e-3, 0, 2e-3], TILT, [0.2, 1.0, 0.4], size=[4e-3, 5e-3, 6e-3])),
+}
+
+
+@pytest.mark.parametrize("name", PAIRS)
+def test_newton_third_law_and_angular_momentum(name):
+    # physical identities: F12 = -F21; T1 + T2 + (c2 - c1) x F2 = 0 (torques about centres)
+    a, b = PAIRS[name]
+    force_b, torque_b = force_and_torque_by_charges(b, a, rtol=1e-5)
+    force_a, torque_a = force_and_torque_by_charges(a, b, rtol=1e-5)
+    scale = np.linalg.norm(force_b)
+    assert np.linalg.norm(force_a + force_b) <= 1e-4 * scale
+    lever = b.bounding_radius + a.bounding_radius
+    balance = torque_a + torque_b + np.cross(b.center - a.center, force_b)
+    assert np.linalg.norm(balance) <= 1e-4 * scale * lever
+
+
+@pytest.mark.parametrize("name", PAIRS)
+def test_force_is_minus_gradient_of_energy(name):
+    # physical identity F = -grad U, central differences of the energy (step 20 um)
+    source, target = PAIRS[name]
+    force, _ = force_and_torque_by_charges(target, source, rtol=1e-6)
+    step = 2e-5
+    gradient = []
+    for axis in np.eye(3):
+        up = interaction_energy(replace(target, center=target.center + step * axis), source, rtol=1e-8)
+        down = interaction_energy(replace(target, center=target.center - step * axis), source, rtol=1e-8)
+        gradient.append((up - down) / (2 * step))
+    assert np.linalg.norm(force + np.array(gradient)) <= 1e-3 * np.linalg.norm(force)
+
+
+def test_energy_is_symmetric():
+    # physical identity: U(a in field of b) = U(b in field of a)
+    a, b = PAIRS["block-tilted cylinder"]
+    assert interaction_energy(a, b, rtol=1e-8) == pytest.approx(interaction_energy(b, a, rtol=1e-8), rel=1e-6)
+
+
+def dipole_field(moment, offset):
+    # physics.md sec. 1: B = mu0/(4 pi) (3 r (m.r) - m r^2) / r^5
+    r = np.linalg.norm(offset)
+    return mu_0 / (4 * np.pi) * (3 * offset * (moment @ offset) - moment * r**2) / r**5
+
+
+def test_coaxial_dipoles_far_apart():
+    # physics.md sec. 2: F -> 3 mu0 m1 m2 / (2 pi d^4) for coaxial dipoles (general quadrature)
+    d = 0.15
+    a = MagnetBody("block", [0, 0, 0], np.eye(3), [0, 0, 1.2], size=[5e-3, 4e-3, 3e-3])
+    b = MagnetBody("cylinder", [0, 0, d], TILT, [0, 0, 1.0], diameter=4e-3, height=4e-3)
+    force, torque = force_and_torque_by_charges(b, a)
+    m1, m2 = np.linalg.norm(a.moment), np.linalg.norm(b.moment)
+    assert force[2] == pytest.approx(-3 * mu_0 * m1 * m2 / (2 * np.pi * d**4), rel=2e-3)
+    assert np.linalg.norm(force[:2]) <= 1e-3 * abs(force[2])
+
+
+def test_torque_far_away_is_m_cross_b():
+    # physics.md sec. 1: far from the source B is the dipole field; torque -> m x B
+    a = MagnetBody("cylinder", [0, 0, 0], np.eye(3), [0, 0, 1.2], diameter=5e-3, height=5e-3)
+    b = MagnetBody("block", [0.1, 0.02, 0.05], TILT, 1.0 * TILT[:, 0], size=[3e-3, 3e-3, 4e-3])
+    _, torque = force_and_torque_by_charges(b, a)
+    expected = np.cross(b.moment, dipole_field(a.moment, b.center - a.center))
+    assert np.linalg.norm(torque - expected) <= 5e-3 * np.linalg.norm(expected)
+
+
+def test_sphere_target_feels_the_point_dipole_force():
+    # identity: a uniformly magnetized sphere's outside field is exactly a dipole's, so by
+    # Newton's third law the force on it equals the force on a point dipole at its centre,
+    # F = grad(m . B), here by central differences of the exact source field
+    source = PAIRS["block-tilted cylinder"][0]
+    sphere = MagnetBody("sphere", [3e-3, 2e-3, 9e-3], np.eye(3), [0.4, -0.3, 1.1], diameter=6e-3)
+    force, _ = force_and_torque_by_charges(sphere, source, rtol=1e-6)
+    step, gradient = 1e-6, []
+    for axis in np.eye(3):
+        up = sphere.moment @ field_of_body(source, sphere.center + step * axis)
+        down = sphere.moment @ field_of_body(source, sphere.center - step * axis)
+        gradient.append((up - down) / (2 * step))
+    assert np.linalg.norm(force - gradient) <= 1e-4 * np.linalg.norm(force)
+
+
+magpylib_cases = {
+    "coaxial 2 mm": (MagnetBody("cylinder", [0, 0, 0], np.eye(3), [0, 0, 1.2], diameter=10e-3, height=5e-3),
+                     MagnetBody("cylinder", [0, 0, 7.5e-3], np.eye(3), [0, 0, 1.2], diameter=10e-3, height=5e-3)),
+    "offset tilted 3 mm": (
+        MagnetBody("block", [0, 0, 0], np.eye(3), [0, 0, 1.2], size=[10e-3, 6e-3, 5e-3]),
+        MagnetBody("block", [3e-3, 1e-3, 2.5e-3 + 3e-3 + 3.5e-3],
+                   TILT, 1.1 * TILT[:, 2], size=[4e-3, 5e-3, 6e-3])),
+}
+
+
+def magpylib_object(magpy, body):
+    from scipy.spatial.transform import Rotation
+
+    local = body.rotation.T @ body.polarization
+    kwargs = dict(polarization=local, position=body.center, orientation=Rotation.from_matrix(body.rotation))
+    if body.shape == "cylinder":
+        return magpy.magnet.Cylinder(dimension=(body.diameter, body.height), **kwargs)
+    return magpy.magnet.Cuboid(dimension=body.size, **kwargs)
+
+
+@pytest.mark.parametrize("name", magpylib_cases)
+def test_against_magpylib_meshed_force(name):
+    # test-only reference library: magpylib.getFT with a fine mesh of the target, gaps >= 2 mm
+    magpy = pytest.importorskip("magpylib")
+    source, target = magpylib_cases[name]
+    mesh = (48, 12, 12) if target.shape == "cylinder" else (14, 14, 16)
+    force_ref, torque_ref = magpy.getFT(magpylib_object(magpy, source), magpylib_object(magpy, target),
+                                        meshing=mesh, eps=1e-8)
+    force, torque = force_and_torque_by_charges(target, source)
+    assert np.linalg.norm(force - force_ref) <= 5e-3 * np.linalg.norm(force_ref)
+    scale = np.linalg.norm(force_ref) * target.bounding_radius + np.linalg.norm(torque_ref)
+    assert np.linalg.norm(torque - torque_ref) <= 5e-3 * scale
+
+
+def test_image_method_equals_explicit_mirror_magnet():
+    # the method of images (Jackson 1999, sec. 5.12): the steel's force equals the force of
+    # a mirror magnet built here by hand at -z with J_z kept and J_x reversed
+    magnet = MagnetBody("cylinder", [1e-3, 0, 4e-3], TILT, [0.4, 0.1, 1.1], diameter=6e-3, height=4e-3)
+    mirror = np.diag([1.0, 1.0, -1.0])
+    by_hand = MagnetBody("cylinder", [1e-3, 0, -4e-3], mirror @ TILT @ np.diag([-1.0, 1, 1]),
+                         [-0.4, -0.1, 1.1], diameter=6e-3, height=4e-3)
+    force, torque = steel_surface_force_and_torque(magnet, [0, 0, 0], [0, 0, 1])
+    force_hand, torque_hand = force_and_torque_by_charges(magnet, by_hand)
+    assert np.allclose(force, force_hand, rtol=1e-3, atol=1e-4 * np.linalg.norm(force_hand))
+    assert np.allclose(torque, torque_hand, rtol=1e-3, atol=1e-4 * np.linalg.norm(torque_hand))
+    assert force[2] < 0  # steel always attracts
+
+
+def test_image_force_is_twin_magnet_at_double_gap():
+    # method of images + Vokoun et al. (2009): an axial cylinder at gap g from steel feels
+    # the exact coaxial force of its twin at gap 2 g
+    g, D, L = 1e-3, 10e-3, 5e-3
+    magnet = MagnetBody("cylinder", [0, 0, g + L / 2], np.eye(3), [0, 0, 1.3], diameter=D, height=L)
+    image = mirror_in_plane(magnet, [0, 0, 0], [0, 0, 1])
+    assert np.allclose(image.center, [0, 0, -(g + L / 2)]) and np.allclose(image.polarization, [0, 0, 1.3])
+    force, _ = steel_surface_force_and_torque(magnet, [0, 0, 0], [0, 0, 1])
+    twin = coaxial_cylinders_axial_force(D / 2, 0, L, 1.3, D / 2, 0, L, 1.3, 2 * g + L)
+    assert force[2] == pytest.approx(twin, rel=1e-9)
+
+
+def test_plate_saturation_flux_and_flag():
+    # independent computation: magnet + image on the plate = one cylinder of twice the
+    # length; the flux into the plate is the flux through that cylinder's mid-plane disc,
+    # integrated here with a polar Gauss rule over magpylib's field (test-only library)
+    magpy = pytest.importorskip("magpylib")
+    D, L, J = 10e-3, 5e-3, 1.3
+    magnet = MagnetBody("cylinder", [0, 0, L / 2], np.eye(3), [0, 0, J], diameter=D, height=L)
+    doubled = magpy.magnet.Cylinder(dimension=(D, 2 * L), polarization=(0, 0, J))
+    x, w = np.polynomial.legendre.leggauss(40)
+    r = (x + 1) / 2 * (D / 2) * 0.999999
+    Bz = doubled.getB(np.c_[r, 0 * r, 0 * r])[:, 2]
+    flux = np.sum(w * (D / 4) * Bz * 2 * np.pi * r)
+    thick = plate_saturation_check(magnet, [0, 0, 0], [0, 0, 1], thickness=5e-3)
+    assert thick.flux == pytest.approx(flux, rel=2e-3)
+    assert not thick.saturates
+    # flux / (perimeter pi D * thickness) against 2.0 T: the flag turns at that thickness
+    assert thick.thickness_to_carry_flux == pytest.approx(flux / (2.0 * np.pi * D), rel=2e-3)
+    thin = plate_saturation_check(magnet, [0, 0, 0], [0, 0, 1], thickness=0.5 * thick.thickness_to_carry_flux)
+    assert thin.saturates and thin.plate_flux_density == pytest.approx(4.0, rel=1e-9)
+
+
+def test_dispatcher_agrees_with_quadrature_off_the_fast_paths():
+    # the dispatcher must fall back to the quadrature for a tilted pair (same numbers)
+    source, target = PAIRS["block-tilted cylinder"]
+    f1, t1 = force_and_torque(target, source)
+    f2, t2 = force_and_torque_by_charges(target, source)
+    assert np.allclose(f1, f2) and np.allclose(t1, t2)

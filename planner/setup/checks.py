@@ -194,7 +194,9 @@ def _check_clearances(setup, add) -> None:
     groups = _groups(setup)
     for position, activity in enumerate(setup.activities):
         if activity.kind == "pass_through_coil" and activity.offset == 0:
-            magnet, coil = groups["magnets"][activity.magnet], groups["coils"][activity.coil]
+            magnet, coil = groups["magnets"].get(activity.magnet), groups["coils"].get(activity.coil)
+            if magnet is None or coil is None:  # left out of a salvaged setup for its own problems
+                continue
             needed = 2 * surface_extent_across(body_of(magnet), coil.axis)
             if needed >= coil.inner_diameter:
                 add(("activities", position, "coil"),
@@ -202,7 +204,9 @@ def _check_clearances(setup, add) -> None:
                     f"whose inner diameter is {coil.inner_diameter * 1e3:.1f} mm; use a larger coil or pass it by "
                     "with an `offset`")
         if activity.kind == "drop_through_tube":
-            magnet, tube = groups["magnets"][activity.magnet], groups["tubes"][activity.tube]
+            magnet, tube = groups["magnets"].get(activity.magnet), groups["tubes"].get(activity.tube)
+            if magnet is None or tube is None:
+                continue
             needed = 2 * surface_extent_across(body_of(magnet), tube.axis)
             if needed >= tube.inner_diameter:
                 add(("activities", position, "tube"),

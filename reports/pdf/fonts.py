@@ -1,0 +1,130 @@
+"""Fonts for the report, and turning any text from a setup into safe Paragraph markup.
+
+The body font is DejaVu Sans (wide coverage: Latin with all accents, Greek, Cyrillic, Armenian,
+Georgian, Hebrew and many symbols), embedded as a subset so names render as text in any viewer.
+It is looked for, in this order:
+
+1. the folder in ``$BENCHPLAN_FONT_DIR`` (holding ``DejaVuSans.ttf`` and ``DejaVuSans-Bold.ttf``);
+2. the copy that the matplotlib wheel ships in ``matplotlib/mpl-data/fonts/ttf`` (found without
+   importing matplotlib), so no system package is needed;
+3. Debian's ``fonts-dejavu-core`` in ``/usr/share/fonts/truetype/dejavu``.
+
+If none is found the report falls back to the PDF standard Helvetica and says so on its first
+page: letters outside Latin-1 then cannot be shown.
+
+Chinese, Japanese and Korean characters (absent from DejaVu) are set in the standard Adobe
+CJK fonts that PDF viewers provide (``STSong-Light``, ``HYSMyeongJo-Medium``): they stay text
+(searchable, copyable) and show wherever the viewer has its Asian font support.
+"""
+from __future__ import annotations
+
+import functools
+import importlib.util
+import os
+from dataclasses import dataclass
+from pathlib import Path
+from xml.sax.saxutils import escape
+
+from reportlab.pdfbase import pdfmetrics
+from reportlab.pdfbase.cidfonts import UnicodeCIDFont
+from reportlab.pdfbase.ttfonts import TTFont
+
+REGULAR_FILE, BOLD_FILE = "DejaVuSans.ttf", "DejaVuSans-Bold.ttf"
+FONT_DIRECTORY_VARIABLE = "BENCHPLAN_FONT_DIR"
+_DEBIAN_DIRECTORY = Path("/usr/share/fonts/truetype/dejavu")
+_HAN_FONT, _HANGUL_FONT = "STSong-Light", "HYSMyeongJo-Medium"
+
+
+@dataclass(frozen=True)
+class Fonts:
+    """Registered font names and where the body font came from."""
+
+    regular: str
+    bold: str
+    origin: str                 # a path, or "" for the Helvetica fallback
+    covered: frozenset[int]     # code points the body font has glyphs for (empty: Latin-1 only)
+
+    @property
+    def wide(self) -> bool:
+        return bool(self.origin)
+
+
+def _matplotlib_font_directory() -> Path | None:
+    spec = importlib.util.find_spec("matplotlib")
+    if spec is None or not spec.submodule_search_locations:
+        return None
+    return Path(list(spec.submodule_search_locations)[0]) / "mpl-data" / "fonts" / "ttf"
+
+
+def font_directories() -> list[Path]:
+    """Folders searched for DejaVu Sans, in order."""
+    folders = []
+    if os.environ.get(FONT_DIRECTORY_VARIABLE):
+        folders.append(Path(os.environ[FONT_DIRECTORY_VARIABLE]))
+    matplotlib_folder = _matplotlib_font_directory()
+    if matplotlib_folder is not None:
+        folders.append(matplotlib_folder)
+    folders.append(_DEBIAN_DIRECTORY)
+    return folders
+
+
+@functools.lru_cache(maxsize=None)
+def _register(directory: str) -> Fonts:
+    folder = Path(directory)
+    regular = TTFont("BenchplanBody", str(folder / REGULAR_FILE))
+    bold = TTFont("BenchplanBold", str(folder / BOLD_FILE))
+    pdfmetrics.registerFont(regular)
+    pdfmetrics.registerFont(bold)
+    pdfmetrics.registerFontFamily("BenchplanBody", normal="BenchplanBody", bold="BenchplanBold",
+                                  italic="BenchplanBody", boldItalic="BenchplanBold")
+    for name in (_HAN_FONT, _HANGUL_FONT):
+        pdfmetrics.registerFont(UnicodeCIDFont(name))
+    covered = frozenset(regular.face.charToGlyph)
+    return Fonts("BenchplanBody", "BenchplanBold", str(folder / REGULAR_FILE), covered)
+
+
+def report_fonts() -> Fonts:
+    """Register and return the report's fonts (DejaVu Sans if found, else Helvetica)."""
+    for folder in font_directories():
+        if (folder / REGULAR_FILE).is_file() and (folder / BOLD_FILE).is_file():
+            return _register(str(folder))
+    for name in (_HAN_FONT, _HANGUL_FONT):
+        pdfmetrics.registerFont(UnicodeCIDFont(name))
+    return Fonts("Helvetica", "Helvetica-Bold", "", frozenset(range(256)))
+
+
+def _fallback_font(character: str) -> str | None:
+    code = ord(character)
+    if 0xAC00 <= code <= 0xD7AF or 0x1100 <= code <= 0x11FF or 0x3130 <= code <= 0x318F:
+        return _HANGUL_FONT
+    if (0x2E80 <= code <= 0x9FFF or 0xF900 <= code <= 0xFAFF or 0xFF00 <= code <= 0xFFEF
+            or 0x20000 <= code <= 0x2FFFF):
+        return _HAN_FONT
+    return None
+
+
+def safe(text, fonts: Fonts | None = None) -> str:
+    """Any text (from a setup, a finding, a register) as Paragraph markup that shows it literally.
+
+    Escapes ``&``, ``<`` and ``>`` (so ``<b>&`` prints as written and never as markup), keeps
+    line breaks, and sets runs of CJK characters that the body font lacks in a CJK font.
+    """
+    fonts = fonts or report_fonts()
+    text = "" if text is None else str(text)
+    pieces: list[str] = []
+    run_font, run = None, ""
+    for character in text:
+        font = None if ord(character) in fonts.covered else _fallback_font(character)
+        if font != run_font and run:
+            pieces.append(_wrap(run, run_font))
+            run = ""
+        run_font = font
+        run += character
+    if run:
+        pieces.append(_wrap(run, run_font))
+    return "".join(pieces).replace("\n", "<br/>")
+
+
+def _wrap(run: str, font: str | None) -> str:
+    escaped = escape(run)
+    return f'<font name="{font}">{escaped}</font>' if font else escaped

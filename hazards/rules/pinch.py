@@ -1,0 +1,91 @@
+"""Fingers between magnets, or between a magnet and steel: clamp force, pinch energy, snap distances."""
+from __future__ import annotations
+
+from hazards.findings import ACTION, BLOCKING, Finding, is_number, missing_figure, show, source_entry, \
+    threshold_map, threshold_text
+from hazards.rules.common import activities_of, items, magnet_figures_by_id
+
+CONCERN = "pinch"
+
+
+def _past(value, limit) -> bool:
+    """At or above the limit; an unknown value counts as past it (safe side)."""
+    return bool(value >= limit) if is_number(value) else True
+
+
+def pinch(setup, assessment, thresholds) -> list:
+    """Findings on clamp force and pinch energy, and the handling rules the snap distances call for."""
+    table = threshold_map(thresholds)
+    force_limit, energy_limit = table["hand_force_quasi_static"], table["hand_energy_transient"]
+    pressure_limit = table["finger_pad_pressure"]
+    pairs = items(assessment, "pairs")
+    findings: list[Finding] = []
+    if activities_of(setup, "bring_together") and not pairs:
+        findings.append(missing_figure(CONCERN, "the forces between the magnets brought together",
+                                       "Bring the parts together only with spacers and jigs until figures exist.",
+                                       severity=BLOCKING))
+    magnets = magnet_figures_by_id(assessment)
+    for pair in pairs:
+        name = f"`{pair.magnet_id}` and `{pair.other_id}`"
+        key = f"{pair.magnet_id}.{pair.other_id}"
+        clamp, energy = pair.force_at_finger_gap_N, pair.pinch_energy_J
+        bound = " (upper bound)" if pair.upper_bound else ""
+        areas = [magnets[i].pole_area_m2 for i in (pair.magnet_id, pair.other_id)
+                 if i in magnets and is_number(magnets[i].pole_area_m2) and magnets[i].pole_area_m2 > 0]
+        pressure = clamp / min(areas) if areas and is_number(clamp) else float("nan")
+        over = [(force_limit, clamp, "force"), (energy_limit, energy, "energy"), (pressure_limit, pressure, "pressure")]
+        passed = [(t, v, k) for t, v, k in over if (k != "pressure" or is_number(v)) and _past(v, t.value)]
+        figures = [("clamp force at a finger gap of " + show(pair.finger_gap_m, "length"), show(clamp, "force") + bound),
+                   ("energy released onto the finger", show(energy, "energy") + bound),
+                   ("pressure over the smaller pole face (at least)", show(pressure, "pressure")),
+                   ("force at contact", show(pair.force_at_contact_N, "force") + bound),
+                   ("impact speed", show(pair.impact_speed_m_per_s, "speed"))]
+        if passed:
+            findings.append(Finding(
+                id=f"pinch.{key}", severity=BLOCKING, concern=CONCERN,
+                title=f"A finger caught between {name} is past the hand {', '.join(k for _, _, k in passed)} limit",
+                figures=figures + [(f"hand {k} limit", threshold_text(t)) for t, _, k in passed],
+                why=("Above these values contact with the hand is expected to be painful or injurious "
+                     "(collaborative-robot body-region limits, the closest published data for the hand)."),
+                cautions=["Never put fingers between the parts; keep them on the outside faces."],
+                checklist=[f"Bring {name} together only in a jig or with a non-magnetic spacer at least "
+                           f"{show(pair.finger_gap_m, 'length')} thick, never with fingers between them."],
+                sources=[source_entry(t) for t, _, _ in passed]))
+        findings.append(_handling(pair, name, key, figures, table))
+    if pairs:
+        findings.append(_storage(pairs))
+    return findings
+
+
+def _handling(pair, name, key, figures, table) -> Finding:
+    snap = [d for d in (pair.snap_distance_bench_m, pair.snap_distance_hand_m) if is_number(d)]
+    snap_text = show(max(snap), "length") if snap else "a distance to be found carefully"
+    checklist = [f"Keep {name} at least {snap_text} apart except when joining them on purpose.",
+                 "Handle one magnet at a time; put the others away first.",
+                 "Separate joined magnets by sliding them apart sideways, not by pulling.",
+                 "Keep non-magnetic spacers (wood, plastic) between magnets in use."]
+    cautions = [f"The parts jump together from {snap_text}."]
+    if pair.both_brittle:
+        checklist.append("Wear safety glasses: brittle magnets chip or shatter when they snap together.")
+        cautions.append("NdFeB and ferrite are brittle; fragments fly at speed (common practice).")
+    cautions += list(pair.warnings or [])
+    return Finding(
+        id=f"pinch.handling.{key}", severity=ACTION, concern=CONCERN,
+        title=f"Handling {name}: they snap together from {snap_text}",
+        figures=[("snap distance sliding on the bench", show(pair.snap_distance_bench_m, "length")),
+                 ("snap distance held in the hand", show(pair.snap_distance_hand_m, "length"))] + figures,
+        why="Inside the snap distance the attraction beats the hand's grip or the bench friction.",
+        cautions=cautions, checklist=checklist,
+        sources=[source_entry(table["hand_force_quasi_static"]), source_entry(table["hand_energy_transient"])])
+
+
+def _storage(pairs) -> Finding:
+    snap = [d for p in pairs for d in (p.snap_distance_bench_m, p.snap_distance_hand_m) if is_number(d)]
+    gap = show(max(snap), "length") if snap else "well"
+    return Finding(
+        id="pinch.storage", severity=ACTION, concern=CONCERN,
+        title="Store the magnets on keepers, with spacers, apart from each other",
+        figures=[("largest snap distance", gap)],
+        why="Magnets stored loose find each other and steel; taking them apart again is where fingers get caught.",
+        checklist=[f"Store each magnet on a steel keeper or in its own compartment, at least {gap} from the next.",
+                   "Put spacers between stacked magnets."])

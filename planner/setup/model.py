@@ -103,6 +103,8 @@ class SteelSurface(Part):
     at: Position = Field(description="a point on the steel's face")
     normal: Direction = Field(description="outward normal of the face, pointing from the steel toward the magnets")
     thickness: Length
+    size: Optional[Pair("length")] = Field(
+        None, description="[length, width] of the face, centred on `at` and square to the setup axes; omitted: large")
     steel: str = Field("low-carbon-steel", description="steel name (see `benchplan grades`)")
     label: Optional[Text] = None
 

@@ -76,6 +76,11 @@ class Finding:
     def rank(self) -> int:
         return severity_rank(self.severity)
 
+    @property
+    def blocking(self) -> bool:
+        """Must this be resolved before work starts?"""
+        return self.severity == BLOCKING
+
     def to_dict(self) -> dict:
         """JSON-ready dict."""
         return {

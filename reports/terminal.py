@@ -1,0 +1,220 @@
+"""The readable terminal summary of an assessment: figures first, then findings by severity.
+
+Reports never compute physics: everything printed here is read from the Assessment and its
+findings. Every threshold is printed with its source, its confidence, and where its value came
+from (the default table or the site's rules).
+"""
+from __future__ import annotations
+
+import textwrap
+
+from hazards.findings import (DEFERRAL, SEVERITIES, SEVERITY_MEANINGS, deferral_line, is_number, show, show_field,
+                              threshold_text)
+
+__all__ = ["render_terminal"]
+
+WIDTH = 100
+_SUFFIXES = [("_m_per_s", "speed"), ("_N_m", "torque"), ("_V", "voltage"), ("_A", "current"), ("_J", "energy"),
+             ("_C", "charge"), ("_N", "force"), ("_m", "length"), ("_T", "field"), ("_kg", "mass")]
+_PLAIN_UNITS = {"_s": "s", "_ohm": "ohm", "_H": "H", "_W": "W", "_Hz": "Hz", "_rad_per_s": "rad/s"}
+
+
+def render_terminal(setup, assessment) -> str:
+    """The assessment as plain text for a terminal.
+
+    Parameters
+    ----------
+    setup : planner.setup.Setup or None
+        Used for the site's name and competent persons in the deferral line.
+    assessment : planner.assessment.Assessment
+        Figures and findings (``assessment.findings``, list of hazards.findings.Finding).
+
+    Returns
+    -------
+    str
+        The summary, lines at most about 100 characters wide.
+    """
+    out: list[str] = []
+    out.append(f"benchplan assessment: {assessment.title}")
+    site = getattr(setup, "site", None)
+    date = getattr(setup, "date", None)
+    if site or date:
+        out.append("  " + ", ".join(str(x) for x in (site, date) if x))
+    out.append(f"  program version {assessment.program_version}")
+    _site_values(out, assessment)
+    _magnets(out, assessment)
+    _keep_out(out, assessment)
+    _pairs(out, assessment)
+    _projectiles(out, assessment)
+    _induction(out, assessment)
+    _shipping(out, assessment)
+    _listed(out, "Assumptions", getattr(assessment, "assumptions", []))
+    _listed(out, "Notes", getattr(assessment, "notes", []))
+    _findings(out, assessment)
+    out.append("")
+    out += _wrap(deferral_line(setup) if setup is not None else DEFERRAL, "")
+    return "\n".join(out) + "\n"
+
+
+def _heading(out, text):
+    out += ["", text, "-" * len(text)]
+
+
+def _wrap(text, indent="  ", later=None) -> list[str]:
+    return textwrap.wrap(str(text), WIDTH, initial_indent=indent, subsequent_indent=later or indent + "  ") or [indent]
+
+
+def _table(out, headers, rows):
+    rows = [[str(c) for c in row] for row in rows]
+    widths = [max(len(h), *(len(r[i]) for r in rows)) if rows else len(h) for i, h in enumerate(headers)]
+    out.append("  " + "  ".join(h.ljust(w) for h, w in zip(headers, widths)).rstrip())
+    for row in rows:
+        out.append("  " + "  ".join(c.ljust(w) for c, w in zip(row, widths)).rstrip())
+
+
+def _site_values(out, assessment):
+    changed = [t for t in assessment.thresholds if t.origin == "site"]
+    if not changed:
+        return
+    _heading(out, "Thresholds set by the site's rules")
+    for t in changed:
+        out += _wrap(f"{t.id}: {threshold_text(t)}")
+
+
+def _magnets(out, assessment):
+    if not assessment.magnets:
+        return
+    _heading(out, "Magnets")
+    rows = []
+    for m in assessment.magnets:
+        index = f"{m.flux_index_kG2_mm2:.3g}" if is_number(m.flux_index_kG2_mm2) else "n/a"
+        rows.append([m.id, f"{m.shape} {m.size}", m.material, show_field(m.remanence_T), m.count,
+                     show(m.mass_kg, "mass"), show_field(m.pole_face_field_T), index,
+                     "yes" if m.fits_small_parts_cylinder else "no"])
+    _table(out, ["magnet", "shape and size", "grade", "remanence", "pieces", "mass", "face field",
+                 "flux index kG^2 mm^2", "small part"], rows)
+    notes = {m.remanence_note for m in assessment.magnets if m.remanence_note}
+    for note in sorted(notes):
+        out += _wrap(note)
+
+
+def _keep_out(out, assessment):
+    if not assessment.keep_out:
+        return
+    _heading(out, "Keep-out distances (largest distance from each magnet's centre to the threshold)")
+    by_threshold: dict[str, list] = {}
+    for row in assessment.keep_out:
+        by_threshold.setdefault(row.threshold_id, []).append(row)
+    for threshold_id, rows in by_threshold.items():
+        threshold = assessment.threshold(threshold_id)
+        value = threshold_text(threshold) if threshold else show_field(rows[0].threshold_T)
+        distances = ", ".join(f"{r.magnet_id} {show(r.distance_m, 'length')}" for r in rows)
+        out += _wrap(f"{threshold_id} at {value}: {distances}")
+        if threshold:
+            source = f"source: {threshold.source} [{threshold.confidence}]"
+            if threshold.note:
+                source += f"; {threshold.note}"
+            out += _wrap(source, "      ")
+    reach = [r for r in assessment.zone_reach if r.reached or (is_number(r.max_field_T) and r.max_field_T >= r.threshold_T)]
+    if assessment.zone_reach:
+        out.append("")
+        out.append("  Zones (largest field inside each):")
+        seen = {}
+        for r in assessment.zone_reach:
+            seen.setdefault(r.zone_id, r)
+        for zone_id, r in seen.items():
+            reached = sorted({x.threshold_id for x in reach if x.zone_id == zone_id})
+            people = "people" if r.people else "no people"
+            out += _wrap(f"{zone_id} ({r.zone_kind}, {people}): {show_field(r.max_field_T)}"
+                         + (f"; reaches {', '.join(reached)}" if reached else ""), "    ")
+
+
+def _pairs(out, assessment):
+    if not assessment.pairs:
+        return
+    _heading(out, "Magnets brought together")
+    rows = []
+    for p in assessment.pairs:
+        bound = " (upper bound)" if p.upper_bound else ""
+        rows.append([f"{p.magnet_id} -> {p.other_id}", p.approach, show(p.force_at_contact_N, "force") + bound,
+                     show(p.force_at_finger_gap_N, "force"), show(p.snap_distance_bench_m, "length"),
+                     show(p.snap_distance_hand_m, "length"), show(p.pinch_energy_J, "energy"),
+                     show(p.impact_speed_m_per_s, "speed")])
+    _table(out, ["pair", "by", "force at contact", "at finger gap", "snaps (bench)", "snaps (hand)",
+                 "pinch energy", "impact speed"], rows)
+
+
+def _projectiles(out, assessment):
+    if not assessment.projectiles:
+        return
+    _heading(out, "Loose steel")
+    rows = [[p.item_id, p.magnet_id, show(p.distance_m, "length"), show(p.pull_off_distance_m, "length"),
+             show(p.lift_distance_m, "length"), "lifted" if p.within_lift else "pulled" if p.within_pull else "no"]
+            for p in assessment.projectiles]
+    _table(out, ["item", "magnet", "distance", "pulled within", "lifted within", "moves?"], rows)
+
+
+def _value_text(key: str, value) -> tuple[str, str]:
+    if isinstance(value, bool) or not isinstance(value, (int, float)):
+        return key.replace("_", " "), str(value)
+    for suffix, kind in _SUFFIXES:
+        if key.endswith(suffix):
+            return key[: -len(suffix)].replace("_", " "), show(value, kind)
+    for suffix, unit in _PLAIN_UNITS.items():
+        if key.endswith(suffix):
+            return key[: -len(suffix)].replace("_", " "), (f"{value:.3g} {unit}" if is_number(value) else "n/a")
+    return key.replace("_", " "), (f"{value:.3g}" if is_number(value) else "n/a")
+
+
+def _induction(out, assessment):
+    if not assessment.induction:
+        return
+    _heading(out, "Induction and eddy currents")
+    for row in assessment.induction:
+        out.append(f"  {row.activity_id} ({row.kind.replace('_', ' ')})")
+        values = row.values if isinstance(row.values, dict) else {}
+        parts = [": ".join(_value_text(k, v)) for k, v in values.items()]
+        out += _wrap("; ".join(parts), "      ")
+        for warning in row.warnings:
+            out += _wrap(f"remark: {warning}", "      ")
+
+
+def _shipping(out, assessment):
+    if not assessment.shipping:
+        return
+    _heading(out, "Packages sent by air")
+    rows = [[s.activity_id, s.pieces, show_field(s.field_at_2_1_m_T), show_field(s.field_at_4_6_m_T),
+             "yes" if s.shielded else "no"] for s in assessment.shipping]
+    _table(out, ["package", "pieces", "field at 2.1 m", "field at 4.6 m", "shielded"], rows)
+
+
+def _listed(out, title, lines):
+    if lines:
+        _heading(out, title)
+        for line in lines:
+            out += _wrap(f"- {line}")
+
+
+def _findings(out, assessment):
+    findings = [f for f in assessment.findings if hasattr(f, "severity")]
+    _heading(out, f"Findings ({len(findings)})")
+    if not findings:
+        out.append("  none")
+    for severity in reversed(SEVERITIES):
+        group = [f for f in findings if f.severity == severity]
+        if not group:
+            continue
+        out.append("")
+        out.append(f"  {severity.upper()}: {SEVERITY_MEANINGS[severity]} ({len(group)})")
+        for f in group:
+            out += _wrap(f"* {f.title}", "  ", "    ")
+            for label, value in f.figures:
+                out += _wrap(f"{label}: {value}", "      ", "        ")
+            if f.why:
+                out += _wrap(f"why: {f.why}", "      ", "        ")
+            for caution in f.cautions:
+                out += _wrap(f"caution: {caution}", "      ", "        ")
+            for item in f.checklist:
+                out += _wrap(f"[ ] {item}", "      ", "          ")
+            for threshold_id, text in f.sources:
+                out += _wrap(f"source ({threshold_id}): {text}", "      ", "        ")

@@ -42,7 +42,9 @@ def block_field(points, size, polarization):
     in each coordinate, T_xy odd in x and in y); there every log argument that can be
     negative is taken in the cancellation-free form Z + r = (X^2 + Y^2)/(r - Z) for Z < 0,
     and the only remaining singular points are those on the block's own edges
-    (Cichon et al. 2019). Exact everywhere else. On a face the normal component is exact
+    (Cichon et al. 2019). When J has all three components, T_zz is taken from Poisson's
+    equation for the shape's potential, T_xx + T_yy + T_zz = -1 inside (1/2 on a face),
+    0 outside. Exact everywhere else. On a face the normal component is exact
     and the tangential components (which jump there) are the mean of the two sides; on an
     edge or corner the field diverges and NaN is returned.
 
@@ -78,6 +80,10 @@ def _block_field_block(points, half, polarization):
     squares = [(d[0] * d[0], d[1] * d[1]) for d in diff]
     active = polarization != 0.0
     diagonal_axes = [axis for axis in range(3) if active[axis]]
+    # with all three needed, T_zz follows from Poisson's equation, trace T = -inside
+    from_trace = len(diagonal_axes) == 3
+    if from_trace:
+        diagonal_axes = [0, 1]
     pairs = [pair for pair in _PAIRS if active[pair[0]] or active[pair[1]]]
     diagonal = {axis: np.zeros(count) for axis in diagonal_axes}
     products = {pair: [np.ones(count), np.ones(count)] for pair in pairs}  # s = +1, s = -1
@@ -121,6 +127,9 @@ def _block_field_block(points, half, polarization):
         for axis in range(3):
             inside *= np.heaviside(half[axis] - folded[:, axis], 0.5)
         field = np.zeros_like(points)
+        if from_trace:
+            diagonal[2] = -_FOUR_PI * inside - diagonal[0] - diagonal[1]
+            diagonal_axes = [0, 1, 2]
         for axis in diagonal_axes:
             field[:, axis] += (diagonal[axis] / _FOUR_PI + inside) * polarization[axis]
         for first, second in pairs:

@@ -5,6 +5,8 @@ from __future__ import annotations
 import numpy as np
 from scipy.constants import mu_0
 
+from planner.physics.fields.chunking import in_blocks
+
 
 def dipole_field(points, moment, position):
     """Flux density of a point magnetic dipole.
@@ -82,15 +84,23 @@ def sphere_field(points, diameter, polarization):
     >>> sphere_field([[0.0, 0.0, 0.0]], 0.01, [0.0, 0.0, 1.5])[0].tolist()
     [0.0, 0.0, 1.0]
     """
-    points = np.asarray(points, dtype=float).reshape(-1, 3)
     polarization = np.asarray(polarization, dtype=float).reshape(3)
-    radius = diameter / 2.0
-    distance = np.sqrt(np.einsum("ij,ij->i", points, points))
-    inside = np.heaviside(radius - distance, 0.5)
-    volume = np.pi * diameter**3 / 6.0
-    outside_field = dipole_field(points, polarization * volume / mu_0, np.zeros(3))
-    outside_field[inside == 1.0] = 0.0
-    return outside_field * (1.0 - inside)[:, None] + inside[:, None] * (2.0 / 3.0) * polarization
+    return in_blocks(_sphere_field_block, points, diameter / 2.0, polarization)
+
+
+def _sphere_field_block(points, radius, polarization):
+    """:func:`sphere_field` for one block of points (see there)."""
+    r2 = np.einsum("ij,ij->i", points, points)
+    inside = np.heaviside(radius * radius - r2, 0.5)
+    # dipole m = J V / mu0 with V = 4 pi R^3 / 3: B = (R^3/3) (3 r (J.r)/r^5 - J/r^3)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        inverse_r2 = np.where(r2 > 0, 1.0 / r2, 0.0)
+    scale = (radius**3 / 3.0) * inverse_r2 * np.sqrt(inverse_r2)
+    projection = 3.0 * (points @ polarization) * inverse_r2
+    outside = 1.0 - inside
+    field = (projection * scale * outside)[:, None] * points
+    field += ((2.0 / 3.0) * inside - scale * outside)[:, None] * polarization
+    return field
 
 
 def far_field(points, volume, second_moments, polarization):

@@ -74,7 +74,7 @@ def inputs_from_setup(setup, assessment, fingerprint: str, status: ApprovalStatu
         review_interval_s=float(interval) if interval else DEFAULT_REVIEW_INTERVAL_S,
         interval_from_site=bool(interval),
         setup_notes=setup.notes,
-        signoffs=list(status.current_signoffs) if status else [],
+        signoffs=list(status.current_signoffs) if status and status.state != "damaged" else [],
         status=status,
         created_epoch=creation_epoch() if created_epoch is None else created_epoch,
     )

@@ -51,7 +51,7 @@ def surface_charge_patches(body: MagnetBody):
         ``maps[i](u)`` -> (points in the body frame (m, 3) [m], charge per unit parameter
         measure (m,) [A m^-1 times the face Jacobian]).
     boxes : list of (map index, low, high)
-        Initial parameter boxes (2-D), with angles split into quarters.
+        Initial parameter boxes (2-D), with angles split into quarter turns.
 
     Notes
     -----
@@ -69,7 +69,7 @@ def surface_charge_patches(body: MagnetBody):
     J = body.polarization_body / mu_0
     offset = INWARD_OFFSET * body.bounding_radius
     maps, boxes = [], []
-    quarters = [(k * np.pi / 2, (k + 1) * np.pi / 2) for k in range(4)]
+    angles = [(k * np.pi / 2, (k + 1) * np.pi / 2) for k in range(4)]  # quarter turns
 
     def add(map_function, ranges_list):
         maps.append(map_function)
@@ -85,8 +85,8 @@ def surface_charge_patches(body: MagnetBody):
                 def end_face(u, side=side):
                     r, phi = u[:, 0], u[:, 1]
                     z = np.full_like(r, side * (half - offset))
-                    return np.c_[r * np.cos(phi), r * np.sin(phi), z], side * J[2] * r
-                add(end_face, [([inner, a], [outer, b]) for a, b in quarters])
+                    return np.stack([r * np.cos(phi), r * np.sin(phi), z], axis=1), side * J[2] * r
+                add(end_face, [([inner, a], [outer, b]) for a, b in angles])
         if J[0] != 0.0 or J[1] != 0.0:
             for radius, sign in ((outer, 1.0), (inner, -1.0)):
                 if radius == 0.0:
@@ -96,8 +96,8 @@ def surface_charge_patches(body: MagnetBody):
                     c, s = np.cos(phi), np.sin(phi)
                     rho = radius - sign * offset
                     charge = sign * (J[0] * c + J[1] * s) * radius
-                    return np.c_[rho * c, rho * s, z], charge
-                add(curved_face, [([a, -half], [b, half]) for a, b in quarters])
+                    return np.stack([rho * c, rho * s, z], axis=1), charge
+                add(curved_face, [([a, -half], [b, half]) for a, b in angles])
     elif body.shape == "block":
         half_size = body.size / 2
         for axis in range(3):
@@ -117,10 +117,11 @@ def surface_charge_patches(body: MagnetBody):
 
         def sphere_face(u):
             theta, phi = u[:, 0], u[:, 1]
-            normal = np.c_[np.sin(theta) * np.cos(phi), np.sin(theta) * np.sin(phi), np.cos(theta)]
+            normal = np.stack([np.sin(theta) * np.cos(phi), np.sin(theta) * np.sin(phi),
+                               np.cos(theta)], axis=1)
             charge = (normal @ J) * radius**2 * np.sin(theta)
             return (radius - offset) * normal, charge
-        add(sphere_face, [([t0, a], [t1, b]) for a, b in quarters
+        add(sphere_face, [([t0, a], [t1, b]) for a, b in angles
                           for t0, t1 in ((0.0, np.pi / 2), (np.pi / 2, np.pi))])
     return maps, boxes
 
@@ -147,7 +148,7 @@ def volume_patches(body: MagnetBody):
 
         def cylinder_volume(u):
             r, phi = u[:, 0], u[:, 1]
-            return np.c_[r * np.cos(phi), r * np.sin(phi), u[:, 2]], r
+            return np.stack([r * np.cos(phi), r * np.sin(phi), u[:, 2]], axis=1), r
         return [cylinder_volume], [(0, [inner, a, -half], [outer, b, half]) for a, b in quarters]
     if body.shape == "block":
         half_size = body.size / 2
@@ -156,8 +157,8 @@ def volume_patches(body: MagnetBody):
 
     def sphere_volume(u):
         r, theta, phi = u[:, 0], u[:, 1], u[:, 2]
-        points = r[:, None] * np.c_[np.sin(theta) * np.cos(phi), np.sin(theta) * np.sin(phi),
-                                    np.cos(theta)]
+        points = r[:, None] * np.stack([np.sin(theta) * np.cos(phi),
+                                        np.sin(theta) * np.sin(phi), np.cos(theta)], axis=1)
         return points, r**2 * np.sin(theta)
     return [sphere_volume], [(0, [0.0, 0.0, a], [radius, np.pi, b]) for a, b in quarters]
 

@@ -27,7 +27,7 @@ from typing import Callable, Sequence
 
 import numpy as np
 
-DEFAULT_ORDERS = (5, 7)
+DEFAULT_ORDERS = (4, 6)
 
 
 @lru_cache(maxsize=None)

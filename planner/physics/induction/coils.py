@@ -251,10 +251,10 @@ def winding_inductance(winding: Winding) -> float:
     radii = winding.inner_radius + (np.arange(layers) + 0.5) * winding.depth / layers
     turns = winding.turns / layers
     total = float(np.sum(solenoid_inductance(turns, radii, winding.length)))
-    for i in range(layers):
-        for j in range(i + 1, layers):
-            total += 2.0 * coaxial_sheet_mutual_inductance(
-                radii[i], winding.length, turns, radii[j], winding.length, turns)
+    first, second = np.triu_indices(layers, 1)
+    if len(first):
+        total += 2.0 * float(np.sum(coaxial_sheet_mutual_inductance(
+            radii[first], winding.length, turns, radii[second], winding.length, turns)))
     return total
 
 

@@ -115,9 +115,9 @@ def coaxial_coil_mutual_inductance(winding_1: Winding, winding_2: Winding, offse
     """
     radii_1, turns_1 = winding_1.radial_nodes()
     radii_2, turns_2 = winding_2.radial_nodes()
-    return float(sum(coaxial_sheet_mutual_inductance(r1, winding_1.length, n1, r2,
-                                                     winding_2.length, n2, offset)
-                     for r1, n1 in zip(radii_1, turns_1) for r2, n2 in zip(radii_2, turns_2)))
+    return float(np.sum(coaxial_sheet_mutual_inductance(
+        radii_1[:, None], winding_1.length, turns_1[:, None], radii_2[None, :], winding_2.length,
+        turns_2[None, :], offset)))
 
 
 def coil_mutual_inductance(winding_1: Winding, center_1, axis_1, winding_2: Winding, center_2,

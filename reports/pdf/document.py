@@ -20,7 +20,7 @@ from reports.fingerprint import short_fingerprint
 from reports.pdf.checklist import checklist_section
 from reports.pdf.cover import cover
 from reports.pdf.findings import findings_section
-from reports.pdf.fonts import report_fonts
+from reports.pdf.fonts import report_fonts, runs
 from reports.pdf.inputs import ReportInputs
 from reports.pdf.maps import maps_section
 from reports.pdf.methods import methods_section, references_section
@@ -70,9 +70,9 @@ def _canvas_class(title: str, short: str, fonts, epoch: int):
             self.setLineWidth(0.4)
             top = PAGE_HEIGHT - PAGE_MARGIN + 5 * mm
             self.line(PAGE_MARGIN, top - 1.5 * mm, PAGE_WIDTH - PAGE_MARGIN, top - 1.5 * mm)
-            self.setFont(fonts.regular, 7.5)
-            self.drawString(PAGE_MARGIN, top, _clip(self, title, fonts.regular, 7.5,
+            self._draw_runs(PAGE_MARGIN, top, _clip(self, title, fonts.regular, 7.5,
                                                     PAGE_WIDTH - 2 * PAGE_MARGIN - 55 * mm))
+            self.setFont(fonts.regular, 7.5)
             self.drawRightString(PAGE_WIDTH - PAGE_MARGIN, top, f"setup fingerprint {short}")
             bottom = PAGE_MARGIN - 9 * mm
             self.line(PAGE_MARGIN, bottom + 4 * mm, PAGE_WIDTH - PAGE_MARGIN, bottom + 4 * mm)
@@ -80,6 +80,13 @@ def _canvas_class(title: str, short: str, fonts, epoch: int):
                                                  "and competent persons")
             self.drawRightString(PAGE_WIDTH - PAGE_MARGIN, bottom, f"page {self._pageNumber} of {total}")
             self.restoreState()
+
+        def _draw_runs(self, x: float, y: float, text: str) -> None:
+            """Draw text in the body font, with CJK runs in their fallback font."""
+            for piece, font in runs(text, fonts):
+                self.setFont(font, 7.5)
+                self.drawString(x, y, piece)
+                x += self.stringWidth(piece, font, 7.5)
 
     return NumberedCanvas
 

@@ -103,6 +103,18 @@ def _fallback_font(character: str) -> str | None:
     return None
 
 
+def runs(text: str, fonts: Fonts) -> list[tuple[str, str]]:
+    """Split plain text into (text, font name) runs: the body font, or a CJK font where it lacks glyphs."""
+    result: list[tuple[str, str]] = []
+    for character in text:
+        font = (None if ord(character) in fonts.covered else _fallback_font(character)) or fonts.regular
+        if result and result[-1][1] == font:
+            result[-1] = (result[-1][0] + character, font)
+        else:
+            result.append((character, font))
+    return result
+
+
 def safe(text, fonts: Fonts | None = None) -> str:
     """Any text (from a setup, a finding, a register) as Paragraph markup that shows it literally.
 

@@ -21,10 +21,11 @@ from planner.setup import load_setup
 @guarded
 def assess(setup_file: Path, as_json: bool, fail_on: str | None) -> None:
     """Compute the figures for SETUP and list the findings, most pressing first."""
+    setup = load_setup(setup_file)
+    _check_site_thresholds(setup, setup_file)
     from planner.assess import assess as assess_setup
     from reports.terminal import render_terminal
 
-    setup = load_setup(setup_file)
     assessment = assess_setup(setup)
     if as_json:
         click.echo(json.dumps(assessment.to_dict(), indent=2, allow_nan=False))
@@ -35,6 +36,20 @@ def assess(setup_file: Path, as_json: bool, fail_on: str | None) -> None:
         if any(getattr(f, "severity", None) in SEVERITIES and severity_rank(f.severity) >= floor
                for f in assessment.findings):
             sys.exit(EXIT_BLOCKING)
+
+
+def _check_site_thresholds(setup, setup_file: Path) -> None:
+    """Refuse bad threshold overrides (unknown id, wrong unit, looser without a reason) as bad input,
+    with the line of each in the setup file where it is known."""
+    from hazards.thresholds import effective_thresholds
+    from planner.setup import Problem, SetupError, line_of, site_rules_of
+
+    try:
+        effective_thresholds(site_rules_of(setup))
+    except SetupError as error:
+        problems = [Problem(p.path, p.message, p.line or line_of(setup, *p.path.split(".")[:4]))
+                    for p in error.problems]
+        raise SetupError(problems, str(setup_file)) from None
 
 
 COMMANDS = [assess]

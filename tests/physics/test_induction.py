@@ -357,3 +357,19 @@ def test_generator_inductance_reduces_current():
     figures = generator_figures(100, 0.1, 0.01, 3000, 10.0, 0.0, coil_inductance=10.0 / (2 * np.pi * 50))
     assert figures.current_amplitude == pytest.approx(figures.emf_amplitude / (10 * np.sqrt(2)), rel=1e-12)
     assert figures.inductance_ratio == pytest.approx(1.0, rel=1e-12)
+
+
+def test_field_based_linkage_meets_closed_form_and_symmetry():
+    # independent computation: B from planner.physics.fields over every filament's disc,
+    # against the closed-form sheet linkage for a coaxial cylinder beyond the coil's ends
+    pytest.importorskip("planner.physics.fields")
+    from planner.physics.induction import body_flux_linkage
+    winding = Winding(300, 0.008, 0.011, 0.02, 6)
+    body = MagnetBody("cylinder", [0, 0, 0], np.eye(3), [0, 0, 1.2], diameter=0.012, height=0.010)
+    z = np.array([0.03, 0.05, -0.04])
+    got = body_flux_linkage(body, np.column_stack([0 * z, 0 * z, z]), winding, [0, 0, 0], [0, 0, 1])
+    assert got == pytest.approx(flux_linkage(MAGNET, winding, z), rel=1e-5)
+    # identity (mirror symmetry): a block beside the coil links the same flux above and below it
+    block = MagnetBody("block", [0, 0, 0], np.eye(3), [0, 0, 1.2], size=[0.01, 0.008, 0.006])
+    above, below = body_flux_linkage(block, [[0.02, 0.0, 0.03], [0.02, 0.0, -0.03]], winding, [0, 0, 0], [0, 0, 1])
+    assert above == pytest.approx(below, rel=1e-9)

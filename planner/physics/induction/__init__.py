@@ -49,6 +49,7 @@ from .mutual import (
 )
 from .passage import (
     PassageSummary,
+    body_flux_linkage,
     circuit_current,
     flux_linkage,
     linkage_gradient,
@@ -66,6 +67,7 @@ __all__ = [
     "Winding",
     "alternating_induced_emf",
     "axial_magnet",
+    "body_flux_linkage",
     "circuit_current",
     "coaxial_coil_mutual_inductance",
     "coaxial_loop_mutual_inductance",

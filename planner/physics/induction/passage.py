@@ -265,3 +265,62 @@ def summarize_passage(t, emf, current, resistance=np.inf, inductance=0.0,
     scale = peak_current / full_scale_current if full_scale_current else float("nan")
     return PassageSummary(float(abs(emf[peak])), float(t[peak]), peak_current, scale, pulse,
                           float(ratio), bool(ratio > _INDUCTANCE_FLAG))
+
+
+def body_flux_linkage(body, centers, winding: Winding, coil_center, coil_axis, axial_nodes=6,
+                      radial_nodes=12, angular_nodes=32):
+    """Flux linkage of a winding for a magnet of any shape, at any places [Wb-turns].
+
+    Parameters
+    ----------
+    body : MagnetBody
+        The magnet (its own ``center`` is replaced by each of ``centers``).
+    centers : array (n, 3)
+        Positions of the magnet's centre along its path, global frame [m].
+    winding : Winding
+        The coil.
+    coil_center, coil_axis : array (3,)
+        Centre and axis of the coil, global frame [m], [-].
+    axial_nodes, radial_nodes, angular_nodes : int
+        Gauss-Legendre filaments along the winding, Gauss-Legendre and trapezoid nodes over
+        each filament's disc [-].
+
+    Notes
+    -----
+    ``lambda = sum_f N_f int_disc_f B . n dA`` with B from ``planner.physics.fields``: for blocks,
+    tilted magnets and paths off the coil axis, where no closed form applies. Accurate while
+    the discs do not cut through the magnet (magnet beside or beyond the coil); for a
+    coaxial cylinder, ring or sphere use :func:`flux_linkage`. The EMF along a path sampled at
+    times ``t`` is ``-numpy.gradient(lambda, t)``.
+
+    References
+    ----------
+    Faraday's law; fields as in ``planner.physics.fields`` (physics.md section 1).
+    """
+    from planner.physics.fields import field_of_body
+
+    axis = np.asarray(coil_axis, dtype=float)
+    axis = axis / np.linalg.norm(axis)
+    helper = np.array([1.0, 0.0, 0.0]) if abs(axis[0]) < 0.9 else np.array([0.0, 1.0, 0.0])
+    first = np.cross(axis, helper)
+    first /= np.linalg.norm(first)
+    second = np.cross(axis, first)
+    radii, turns = winding.radial_nodes()
+    x_axial, w_axial = roots_legendre(axial_nodes)
+    x_radial, w_radial = roots_legendre(radial_nodes)
+    phi = 2.0 * np.pi * np.arange(angular_nodes) / angular_nodes
+    ring = np.outer(np.cos(phi), first) + np.outer(np.sin(phi), second)          # (A, 3)
+    r = radii[:, None] * (x_radial[None, :] + 1.0) / 2.0                        # (R, Q)
+    area_weight = (radii[:, None] / 2.0 * w_radial[None, :] * r * 2.0 * np.pi / angular_nodes
+                   * turns[:, None])                                            # (R, Q)
+    heights = winding.length / 2.0 * x_axial                                    # (H,)
+    points = (np.asarray(coil_center, dtype=float) + heights[:, None, None, None, None] * axis
+              + r[None, :, :, None, None] * ring[None, None, None, :, :])        # (H, R, Q, A, 3)
+    weights = (w_axial[:, None, None] / 2.0) * area_weight[None, :, :]          # (H, R, Q)
+    centers = np.atleast_2d(np.asarray(centers, dtype=float))
+    linkage = np.empty(len(centers))
+    for index, center in enumerate(centers):
+        shifted = points - (center - body.center)
+        field = field_of_body(body, shifted.reshape(-1, 3)).reshape(points.shape)
+        linkage[index] = np.sum(weights[..., None] * (field @ axis))
+    return linkage

@@ -54,9 +54,10 @@ def implant_wearers_screened(setup) -> bool:
     return getattr(_audience(setup), "implant_wearers", "may_be_present") == "screened_out"
 
 
-def reaches(max_field, threshold_value: float) -> bool:
-    """True when a zone's largest field reaches a threshold; an unknown field counts as reaching it."""
-    return bool(max_field >= threshold_value) if is_number(max_field) else True
+def reaches(max_field, threshold_value: float, flagged: bool = False) -> bool:
+    """True when a zone's largest field reaches a threshold (or the calculation flagged it as
+    reached for this same value); an unknown field counts as reaching it."""
+    return bool(flagged) or (bool(max_field >= threshold_value) if is_number(max_field) else True)
 
 
 def largest_distance_per_magnet(assessment, threshold_id: str) -> dict[str, float]:

@@ -63,7 +63,9 @@ def _keep_out_line(line, distances, table, screened) -> Finding:
 def _zones_reached(line, assessment, screened) -> list:
     findings = []
     for row in items(assessment, "zone_reach"):
-        if row.threshold_id != line.id or not row.people or not reaches(row.max_field_T, line.value):
+        same_value = is_number(row.threshold_T) and abs(row.threshold_T - line.value) <= 1e-9 * line.value
+        if row.threshold_id != line.id or not row.people or \
+                not reaches(row.max_field_T, line.value, bool(row.reached) and same_value):
             continue
         known = is_number(row.max_field_T)
         findings.append(Finding(

@@ -1,7 +1,7 @@
 """Small strong magnets and children: the flux index and the small-parts cylinder."""
 from __future__ import annotations
 
-from hazards.findings import ACTION, BLOCKING, NOTE, Finding, is_number, show, source_entry, threshold_map, \
+from hazards.findings import BLOCKING, NOTE, Finding, is_number, source_entry, threshold_map, \
     threshold_text
 from hazards.rules.common import audience_has_children, items
 

@@ -1,7 +1,6 @@
 """evaluate() never raises; the terminal summary and `benchplan assess` (with a stand-in for the
 lead's assess() until it lands, and the real one on every example setup once it has)."""
 import json
-import math
 import sys
 import types
 from pathlib import Path
@@ -16,7 +15,7 @@ from hazards.evaluate import evaluate
 from hazards.findings import BLOCKING, SEVERITIES, Finding
 from hazards.rules import RULES
 from hazards.thresholds import effective_thresholds
-from planner.assessment import InductionFigures, KeepOut, PairFigures, ProjectileFigures, ShippingFigures, ZoneReach
+from planner.assessment import InductionFigures, ProjectileFigures, ShippingFigures
 from planner.setup import load_setup, site_rules_of
 from planner.setup.model import SiteRules
 from tests.hazards import assessment, keep_out, magnet, pair, setup_from, zone_reach

@@ -154,3 +154,14 @@ def test_loose_steel_without_figures_is_reported():
     setup = setup_from("loose_steel:\n  - {id: nut, shape: sphere, diameter: 10 mm, at: [5 cm, 0 cm, 5 mm]}\n")
     found = projectiles(setup, assessment(magnets=[magnet(pole_face_field_T=0.05)]), list(T.values()))
     assert [f.id for f in found] == ["projectiles.missing.the-pull-and-lift-distances-of-the-loose-steel"]
+
+
+def test_reached_flag_of_the_calculation_is_honoured_for_the_same_value():
+    # The calculation may flag a zone as reached from a conservative bound even when its sampled
+    # largest field is a little lower; the rule keeps that flag when it was computed for the same value.
+    row = zone_reach("front-row", "implant_keep_out", 0.49e-3)
+    row.threshold_T, row.reached = T["implant_keep_out"].value, True
+    a = assessment(magnets=[magnet()], keep_out=[keep_out("implant_keep_out", 0.3)], zone_reach=[row])
+    assert "implants.zone.front-row" in ids(implants(setup_from(audience=MAY_BE_PRESENT), a, list(T.values())))
+    row.threshold_T = 1e-3   # flagged for another value: not used
+    assert "implants.zone.front-row" not in ids(implants(setup_from(audience=MAY_BE_PRESENT), a, list(T.values())))

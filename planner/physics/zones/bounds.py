@@ -1,0 +1,166 @@
+"""Proven bounds on the field of uniformly magnetized bodies, used to certify safety lines.
+
+Notation: k = mu0 / 4 pi; for body i, m_i = |moment| [A m^2], c_i its centre, a_i its
+bounding radius, s_i^2 the mean of |y - c_i|^2 over its volume, d_i = |x - c_i| and D_i the
+distance from x to the body itself.
+
+Outside a body, B(x) = k * integral over V of grad grad (1/|x - y|) . M dV. The n-th
+directional derivative of 1/r along a unit vector is n! P_n(cos g) / r^(n+1) (generating
+function of the Legendre polynomials, |P_n| <= 1), and for a symmetric multilinear form the
+norm equals the largest value on equal unit vectors (Banach 1938). Hence, for d_i > a_i:
+
+* |B_i(x)| <= 2 k m_i / (d_i - a_i)^3;
+* ||grad B_i(x)|| <= 6 k m_i / (d_i - a_i)^4;
+* |B_i(x) - B_dipole,i(x)| <= 12 k m_i s_i^2 / (d_i - a_i)^5 (second-order Taylor remainder;
+  the first-order term vanishes because every shape here is symmetric about its centre);
+  zero for a sphere, whose outside field is exactly a dipole's.
+
+Near a body the surface-charge picture gives a bound that only grows like 1/D: with surface
+charge sigma = J . n / mu0, ||grad B|| <= (1/2 pi) integral |J . n| dA / r^3, and for a flat face
+integral dA / r^3 <= 2 pi / D, for a cylindrical face of radius R it is <= 4 pi R / D^2, so
+
+* ||grad B_i(x)|| <= A_i / D_i + C_i / D_i^2,  A_i = sum over flat faces of |J . n|,
+  C_i = 2 R |J_radial| per curved face.
+
+References
+----------
+J. D. Jackson, Classical Electrodynamics, 3rd ed., Wiley (1999): eq. 3.70 (Legendre generating
+function), eq. 5.56 (dipole field), section 5.9 (magnetic surface charge).
+S. Banach, Studia Math. 7, 36-44 (1938) (norm of symmetric multilinear forms).
+"""
+from __future__ import annotations
+
+import numpy as np
+from scipy.constants import mu_0
+
+K = mu_0 / (4 * np.pi)
+
+
+def exact_body_field(body, points):
+    """Exact field of one body at points (n, 3) [T]; the fields module, imported late."""
+    from planner.physics.fields import field_of_body
+
+    return np.asarray(field_of_body(body, points), dtype=float).reshape(-1, 3)
+
+
+def body_constants(bodies):
+    """Moment sizes m [A m^2], bounding radii a [m], mean square radii s^2 [m^2] (0 for spheres)."""
+    moments = np.array([np.linalg.norm(b.moment) for b in bodies])
+    reach = np.array([b.bounding_radius for b in bodies])
+    square = np.array([_mean_square_radius(b) for b in bodies])
+    return moments, reach, square
+
+
+def _mean_square_radius(body):
+    if body.shape == "sphere":
+        return 0.0
+    if body.shape == "block":
+        return float(np.sum(body.size**2) / 12)
+    outer, inner = body.diameter / 2, body.inner_diameter / 2
+    if body.shape == "cylinder":
+        inner = 0.0
+    return (outer**2 + inner**2) / 2 + body.height**2 / 12
+
+
+def _surface_coefficients(body):
+    """(A, C) of the near-field gradient bound A / D + C / D^2 [T], [T m]."""
+    if body.shape == "sphere":
+        return np.inf, np.inf  # the exact dipole bound is used instead
+    along = body.polarization_body
+    if body.shape == "block":
+        return 2 * float(np.sum(np.abs(along))), 0.0
+    axial, radial = abs(along[2]), float(np.hypot(along[0], along[1]))
+    radii = body.diameter / 2 + (body.inner_diameter / 2 if body.shape == "ring" else 0.0)
+    return 2 * axial, 2 * radial * radii
+
+
+def distance_to_body(body, points):
+    """Distance from points (n, 3) to the solid body [m]; 0 inside."""
+    local = body.to_body(points)
+    if body.shape == "sphere":
+        return np.maximum(np.linalg.norm(local, axis=1) - body.diameter / 2, 0.0)
+    if body.shape == "block":
+        return np.linalg.norm(np.maximum(np.abs(local) - body.size / 2, 0.0), axis=1)
+    radial = np.hypot(local[:, 0], local[:, 1])
+    beyond_end = np.maximum(np.abs(local[:, 2]) - body.height / 2, 0.0)
+    beside = np.maximum(radial - body.diameter / 2, 0.0)
+    if body.shape == "ring":
+        beside = np.where(radial < body.inner_diameter / 2, body.inner_diameter / 2 - radial, beside)
+    return np.hypot(beside, beyond_end)
+
+
+def _dipole_field(moment, centre, points):
+    offset = points - centre
+    distance = np.linalg.norm(offset, axis=1)[:, None]
+    unit = offset / distance
+    return K * (3 * unit * (unit @ moment)[:, None] - moment) / distance**3
+
+
+def field_with_error(bodies, points, allowed_error):
+    """Total |B| at points with a proven bound on its error.
+
+    Parameters
+    ----------
+    bodies : list of MagnetBody
+    points : array (n, 3)
+        [m].
+    allowed_error : float
+        Largest error [T] the caller accepts; bodies far enough away for their dipole error
+        to stay below ``allowed_error / len(bodies)`` are taken as dipoles.
+
+    Returns
+    -------
+    magnitude, error : arrays (n,)
+        |B| [T] of the model used and a bound on |true |B| - magnitude| [T]. Non-finite
+        values (points on a body's edge) come back as +inf.
+    """
+    points = np.asarray(points, dtype=float).reshape(-1, 3)
+    moments, reach, square = body_constants(bodies)
+    total = np.zeros_like(points)
+    error = np.zeros(len(points))
+    share = allowed_error / max(len(bodies), 1)
+    for body, m, a, s2 in zip(bodies, moments, reach, square):
+        distance = np.linalg.norm(points - body.center, axis=1)
+        outside = distance > a * (1 + 1e-9)
+        gap = np.where(outside, distance - (0.0 if s2 == 0 else a), 1.0)
+        remainder = np.where(outside, 12 * K * m * s2 / gap**5, np.inf)
+        far = outside & (remainder <= share)
+        if far.any():
+            total[far] += _dipole_field(body.moment, body.center, points[far])
+            error[far] += remainder[far]
+        if (~far).any():
+            total[~far] += exact_body_field(body, points[~far])
+    magnitude = np.linalg.norm(total, axis=1)
+    magnitude[~np.isfinite(magnitude)] = np.inf
+    return magnitude, error
+
+
+def _ball_geometry(bodies, points):
+    """Per point and body: centre distance d, distance D to the solid, and body constants."""
+    centre_distance = np.stack([np.linalg.norm(points - b.center, axis=1) for b in bodies], axis=1)
+    solid_distance = np.stack([distance_to_body(b, points) for b in bodies], axis=1)
+    moments = np.array([np.linalg.norm(b.moment) for b in bodies])
+    reach = np.array([b.bounding_radius for b in bodies])
+    shift = np.where([b.shape == "sphere" for b in bodies], 0.0, reach)
+    flat, curved = np.array([_surface_coefficients(b) for b in bodies]).T
+    return centre_distance, solid_distance, moments, reach, shift, flat, curved
+
+
+def _gradient_from_geometry(geometry, spread):
+    centre_distance, solid_distance, moments, reach, shift, flat, curved = geometry
+    distance = centre_distance - spread[:, None]
+    gap = solid_distance - spread[:, None]
+    with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+        far = np.where(distance > reach, 6 * K * moments / (distance - shift) ** 4, np.inf)
+        near = np.where(gap > 0, flat / gap + curved / gap**2, np.inf)
+    return np.sum(np.nan_to_num(np.minimum(far, near), nan=np.inf), axis=1)
+
+
+def gradient_bound(bodies, points, spread):
+    """Bound on ||grad B|| [T/m] of the total field over balls of radius ``spread`` (n,) [m].
+
+    Infinite where a ball touches a body (no bound is claimed there).
+    """
+    points = np.asarray(points, dtype=float).reshape(-1, 3)
+    spread = np.broadcast_to(np.asarray(spread, dtype=float), (len(points),))
+    return _gradient_from_geometry(_ball_geometry(bodies, points), spread)

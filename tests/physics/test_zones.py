@@ -1,0 +1,231 @@
+"""Keep-out distances, contours and zone reach (planner.physics.zones).
+
+Reference values come from the point-dipole field B = mu0/(4 pi) (3 r (m.r) - m r^2)/r^5
+(Jackson, Classical Electrodynamics, 3rd ed. (1999), eq. 5.56), which is exact outside a
+uniformly magnetized sphere (Jackson section 5.10), and from brute-force sampling of the
+exact field of planner.physics.fields (an independent computation of the same quantity).
+"""
+from __future__ import annotations
+
+import numpy as np
+import pytest
+from hypothesis import HealthCheck, given, settings, strategies as st
+from scipy.constants import mu_0
+
+from planner.physics.bodies import MagnetBody, rotation_from_axis
+from planner.physics.fields import field_of_bodies
+from planner.physics.zones import field_contours, keep_out_radius, zone_reach
+from planner.physics.zones.keep_out import keep_out_radii
+
+RNG = np.random.default_rng(20261201)
+
+
+def sphere(centre, polarization, diameter=0.01):
+    return MagnetBody("sphere", centre, np.eye(3), polarization, diameter=diameter)
+
+
+def on_axis_radius(moment, threshold):
+    """Dipole on its axis: B = mu0 m / (2 pi r^3) -> r = (mu0 m / (2 pi B))^(1/3) (eq. 5.56)."""
+    return (mu_0 * moment / (2 * np.pi * threshold)) ** (1 / 3)
+
+
+def equatorial_radius(moment, threshold):
+    """Dipole on its equator: B = mu0 m / (4 pi r^3) -> r = (mu0 m / (4 pi B))^(1/3) (eq. 5.56)."""
+    return (mu_0 * moment / (4 * np.pi * threshold)) ** (1 / 3)
+
+
+def in_own_cell(bodies, index, points):
+    own = np.linalg.norm(points - bodies[index].center, axis=1)
+    others = [b.center for i, b in enumerate(bodies) if i != index]
+    if not others:
+        return np.ones(len(points), bool)
+    nearest = np.min(np.linalg.norm(points[:, None] - np.array(others)[None], axis=2), axis=1)
+    return own <= nearest
+
+
+def largest_field_beyond(bodies, index, radius, count=60000):
+    """Brute force: largest exact |B| at random points between radius and 1.4 radius."""
+    unit = RNG.normal(size=(count, 3))
+    unit /= np.linalg.norm(unit, axis=1)[:, None]
+    distance = radius * (1 + 0.4 * RNG.random(count) ** 2)
+    points = bodies[index].center + distance[:, None] * unit
+    points = points[in_own_cell(bodies, index, points)]
+    return float(np.nanmax(np.linalg.norm(field_of_bodies(bodies, points), axis=1)))
+
+
+def farthest_found(bodies, index, threshold, start, directions=6000):
+    """Brute force lower bound of the exact distance: shells from ``start`` inward."""
+    unit = RNG.normal(size=(directions, 3))
+    unit /= np.linalg.norm(unit, axis=1)[:, None]
+    floor = bodies[index].bounding_radius
+    for radius in np.geomspace(start, max(floor, 1e-4), 240):
+        points = bodies[index].center + radius * unit
+        points = points[in_own_cell(bodies, index, points)]
+        if np.nanmax(np.linalg.norm(field_of_bodies(bodies, points), axis=1)) >= threshold:
+            return radius
+    return floor
+
+
+# --- keep-out distance -------------------------------------------------------------------
+
+@pytest.mark.parametrize("threshold", [0.1e-3, 0.5e-3, 3e-3, 0.4])
+def test_sphere_keep_out_is_the_on_axis_dipole_radius(threshold):
+    ball = sphere([0.1, -0.2, 0.05], [0.3, -0.4, 1.1])
+    moment = float(np.linalg.norm(ball.moment))
+    exact = max(on_axis_radius(moment, threshold), ball.bounding_radius)
+    found = keep_out_radius([ball], 0, threshold)
+    # Jackson eq. 5.56: the farthest point of |B| = B0 of a dipole is on its axis.
+    assert exact <= found <= max(1.05 * exact, exact + 5e-3)
+
+
+def test_threshold_above_any_outside_field_gives_the_body_extent():
+    ball = sphere([0, 0, 0], [0, 0, 1.2])
+    # Uniformly magnetized sphere: |B| <= 2J/3 everywhere (Jackson 5.10), here 0.8 T.
+    assert keep_out_radius([ball], 0, 1.0) == pytest.approx(ball.bounding_radius, rel=1e-6)
+
+
+def test_several_thresholds_at_once_match_one_by_one_and_shrink():
+    disc = MagnetBody("cylinder", [0, 0, 0], np.eye(3), [0, 0, 1.3], diameter=0.01, height=0.005)
+    thresholds = [3e-3, 0.5e-3, 1e-3]
+    together = keep_out_radii([disc], 0, thresholds)
+    # Nested level sets: a higher threshold cannot reach farther (|B| >= 3 mT implies >= 1 mT).
+    assert together[0] < together[2] < together[1]
+    for threshold, value in zip(thresholds, together):
+        alone = keep_out_radius([disc], 0, threshold)
+        exact_low = farthest_found([disc], 0, threshold, 1.1 * max(alone, value))
+        assert min(alone, value) >= exact_low  # both never short (brute force)
+
+
+shapes = st.sampled_from(["cylinder", "ring", "block", "sphere"])
+
+
+@st.composite
+def magnets(draw):
+    shape = draw(shapes)
+    size = draw(st.floats(3e-3, 30e-3))
+    aspect = draw(st.floats(0.2, 2.0))
+    remanence = draw(st.floats(0.2, 1.45))  # ferrite to N52 (standards.md, material table)
+    axis = np.array(draw(st.tuples(*[st.floats(-1, 1)] * 3)))
+    direction = np.array(draw(st.tuples(*[st.floats(-1, 1)] * 3)))
+    if np.linalg.norm(axis) < 0.1 or np.linalg.norm(direction) < 0.1:
+        axis, direction = np.array([0.2, 0.3, 1.0]), np.array([0.0, 0.0, 1.0])
+    rotation = rotation_from_axis(axis)
+    polarization = remanence * direction / np.linalg.norm(direction)
+    if shape == "block":
+        return MagnetBody(shape, [0, 0, 0], rotation, polarization, size=[size, size * aspect, size * 0.6])
+    if shape == "sphere":
+        return MagnetBody(shape, [0, 0, 0], rotation, polarization, diameter=size)
+    inner = 0.4 * size if shape == "ring" else 0.0
+    return MagnetBody(shape, [0, 0, 0], rotation, polarization, diameter=size, height=size * aspect,
+                      inner_diameter=inner)
+
+
+@settings(max_examples=6, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+@given(body=magnets(), threshold=st.floats(0.1e-3, 10e-3))
+def test_keep_out_is_never_short_and_within_the_margin(body, threshold):
+    found = keep_out_radius([body], 0, threshold)
+    # Conservative: brute-force sampling of the exact field finds nothing at the threshold beyond.
+    assert largest_field_beyond([body], 0, found) < threshold
+    # Margin: at most 5 % or 5 mm above a point that brute force finds at the threshold.
+    exact_low = farthest_found([body], 0, threshold, found)
+    assert found <= max(1.05 * exact_low, exact_low + 5e-3)
+
+
+def test_two_magnets_total_field_never_short_in_either_cell():
+    bodies = [MagnetBody("cylinder", [0, 0, 0], np.eye(3), [0, 0, 1.3], diameter=0.012, height=0.01),
+              MagnetBody("block", [0.04, 0.01, 0], rotation_from_axis([1, 0, 0]), [1.2, 0, 0],
+                         size=[0.01, 0.01, 0.02])]
+    for index in range(2):
+        found = keep_out_radius(bodies, index, 1e-3)
+        # Every point of this magnet's cell beyond the distance is below 1 mT (brute force).
+        assert largest_field_beyond(bodies, index, found) < 1e-3
+
+
+@pytest.mark.parametrize("diameter, height, remanence", [
+    (5e-3, 5e-3, 1.17),  # smallest consumer disc, N35 (Br 1.17-1.22 T, standards.md)
+    (25e-3, 10e-3, 1.48),  # largest, N52 (Br 1.43-1.48 T)
+    (12e-3, 3e-3, 1.30),
+])
+def test_consumer_magnets_reach_half_a_millitesla_within_the_published_band(diameter, height, remanence):
+    disc = MagnetBody("cylinder", [0, 0, 0], np.eye(3), [0, 0, remanence], diameter=diameter, height=height)
+    # Wolber et al., Technol. Health Care 16:13-18 (2008): 0.5 mT between 1.5 and 30 cm.
+    assert 0.015 <= keep_out_radius([disc], 0, 0.5e-3) <= 0.30
+
+
+# --- contours ----------------------------------------------------------------------------
+
+def polygon_area(line):
+    x, y = line[:, 0], line[:, 1]
+    return 0.5 * abs(np.dot(x, np.roll(y, 1)) - np.dot(y, np.roll(x, 1)))
+
+
+def inside(polygon, points):
+    """Even-odd rule point-in-polygon."""
+    x, y = points[:, 0][:, None], points[:, 1][:, None]
+    x0, y0 = polygon[:-1, 0][None], polygon[:-1, 1][None]
+    x1, y1 = polygon[1:, 0][None], polygon[1:, 1][None]
+    crosses = ((y0 > y) != (y1 > y)) & (x < x0 + (y - y0) * (x1 - x0) / (y1 - y0 + 1e-300))
+    return np.sum(crosses, axis=1) % 2 == 1
+
+
+def test_contours_of_a_dipole_match_axis_and_equator_radii():
+    ball = sphere([0, 0, 0], [0, 0, 1.2])
+    moment = float(np.linalg.norm(ball.moment))
+    threshold = 1e-3
+    (line,) = field_contours([ball], [threshold], view="elevation", resolution=301)[threshold]
+    step = 2 * np.abs(line).max() / 300
+    # Elevation (x, z): z is the dipole axis, x its equator (Jackson eq. 5.56).
+    assert np.abs(line[:, 1]).max() == pytest.approx(on_axis_radius(moment, threshold), abs=2 * step)
+    assert np.abs(line[:, 0]).max() == pytest.approx(equatorial_radius(moment, threshold), abs=2 * step)
+
+
+def test_contours_closed_nested_shrinking_and_within_keep_out():
+    disc = MagnetBody("cylinder", [0.02, 0.01, 0], rotation_from_axis([1, 0, 1]), [0.9, 0, 0.9],
+                      diameter=0.02, height=0.01)
+    thresholds = [0.5e-3, 1e-3, 3e-3]
+    lines = field_contours([disc], thresholds, view="plan", offset=0.0, resolution=250)
+    areas = []
+    for threshold in thresholds:
+        assert len(lines[threshold]) == 1
+        line = lines[threshold][0]
+        assert np.allclose(line[0], line[-1])  # closed
+        areas.append(polygon_area(line))
+        # A plane section of the region lies inside the keep-out sphere (same field model).
+        reach = np.max(np.linalg.norm(line - disc.center[:2], axis=1))
+        assert reach <= keep_out_radius([disc], 0, threshold) * 1.01
+    assert areas[0] > areas[1] > areas[2]  # |B| >= 3 mT implies |B| >= 1 mT >= 0.5 mT
+    assert inside(lines[0.5e-3][0], lines[3e-3][0]).all()  # nested
+
+
+def test_regions_of_neighbouring_magnets_merge_into_one_line():
+    bodies = [sphere([0, 0, 0], [0, 0, 1.2]), sphere([0.03, 0, 0], [0, 0, 1.2])]
+    lines = field_contours(bodies, [0.5e-3, 0.1], view="plan", resolution=300)
+    # On-axis dipole radius at 0.5 mT is 5.8 cm > half the 3 cm gap: one joint region;
+    # at 0.1 T it is 0.93 cm < 1.5 cm: two separate ones (Jackson eq. 5.56).
+    assert len(lines[0.5e-3]) == 1
+    assert len(lines[0.1]) == 2
+
+
+# --- zones -------------------------------------------------------------------------------
+
+def test_zone_reach_is_conservative_and_detects_the_region():
+    disc = MagnetBody("cylinder", [0, 0, 0], np.eye(3), [0, 0, 1.3], diameter=0.02, height=0.01)
+    near = [[-0.02, -0.02, 0.03], [0.02, 0.02, 0.05]]  # above the pole face
+    far = [[0.5, -0.2, -0.1], [0.8, 0.2, 0.3]]
+    result = zone_reach([disc], [near, far], [0.5e-3, 1e-3])
+    grid = np.stack(np.meshgrid(*[np.linspace(a, b, 21) for a, b in zip(*near)]), -1).reshape(-1, 3)
+    brute = np.linalg.norm(field_of_bodies([disc], grid), axis=1).max()
+    assert result["max_field"][0] >= brute  # proven bound never below sampled truth
+    assert result["reached"][0].all() and not result["reached"][1].any()
+    assert (result["depth"][0] > 0).all()
+    # Cylinder on axis at 30 mm (Camacho & Sosa 2013 closed form) exceeds 1 mT: 10 mm + 20 mm gap.
+    assert result["excess"][0, 1] > 0
+
+
+def test_plan_rectangle_at_height():
+    ball = sphere([0, 0, 0], [0, 0, 1.2])
+    rectangle = [[-0.01, -0.01], [0.01, 0.01]]
+    high = zone_reach([ball], [rectangle], [1e-3], height=1.0)
+    low = zone_reach([ball], [rectangle], [1e-3], height=0.03)
+    # Dipole on axis: 1 mT out to 4.6 cm (eq. 5.56): reached at 3 cm, not at 1 m.
+    assert low["reached"][0, 0] and not high["reached"][0, 0]

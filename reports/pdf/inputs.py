@@ -11,6 +11,7 @@ import time
 from dataclasses import dataclass, field
 from typing import Any
 
+from reports.pdf.scenes import scenes_from_setup
 from reports.register import DEFAULT_REVIEW_INTERVAL_S, ApprovalStatus, SignOff
 
 
@@ -33,6 +34,7 @@ class ReportInputs:
     signoffs: list[SignOff] = field(default_factory=list)   # rows for exactly this fingerprint
     status: ApprovalStatus | None = None
     created_epoch: int = 0
+    map_scenes: dict = field(default_factory=dict)           # {view: reports.field_map.MapScene}
 
     @property
     def findings(self) -> list:
@@ -77,4 +79,5 @@ def inputs_from_setup(setup, assessment, fingerprint: str, status: ApprovalStatu
         signoffs=list(status.current_signoffs) if status and status.state != "damaged" else [],
         status=status,
         created_epoch=creation_epoch() if created_epoch is None else created_epoch,
+        map_scenes=scenes_from_setup(setup, assessment),
     )

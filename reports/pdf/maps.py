@@ -100,21 +100,14 @@ def _key_text(contour) -> str:
     return f"{contour.threshold_id.replace('_', ' ')}: |B| = {quantity(contour.threshold_T, 'T')}"
 
 
-def _field_map_drawing(inputs: ReportInputs, view: str, width: float, height: float):
-    """The shared map drawing, when reports.field_map offers a scene builder this module knows."""
-    try:
-        from reports import field_map
-    except ImportError:
+def _field_map_drawing(inputs: ReportInputs, view: str, width: float):
+    """The shared map drawing of ``reports.field_map`` for this view, if a scene was prepared."""
+    scene = (inputs.map_scenes or {}).get(view)
+    if scene is None:
         return None
-    builder = getattr(inputs, "map_scenes", None) or {}
-    scene = builder.get(view) if isinstance(builder, dict) else None
-    draw = getattr(field_map, "draw_map", None) or getattr(field_map, "map_drawing", None)
-    if scene is None or draw is None:
-        return None
-    try:
-        return draw(scene, width=width, height=height)
-    except TypeError:
-        return None
+    from reports.field_map import build_drawing
+
+    return build_drawing(scene, width_mm=width / mm - 22, max_height_mm=120.0)
 
 
 def maps_section(inputs: ReportInputs, s: Styles) -> list:
@@ -122,14 +115,14 @@ def maps_section(inputs: ReportInputs, s: Styles) -> list:
     drawn = False
     for view, caption, first_axis, second_axis in VIEWS:
         contours = [c for c in inputs.assessment.contours if c.view == view]
-        drawing = _field_map_drawing(inputs, view, 170 * mm, 95 * mm)
+        drawing = _field_map_drawing(inputs, view, 174 * mm)
         if drawing is None and contours:
+            offset = contours[0].plane_offset_m
+            where = f"at height z = {_metres(offset)}" if view == "plan" else f"in the plane y = {_metres(offset)}"
+            story.append(s.para(f"{caption}, {where}; to scale, both axes in metres.", s.subheading))
             drawing = contour_drawing(contours, s.fonts.regular, axis_names=(first_axis, second_axis))
         if drawing is None:
             continue
-        offset = contours[0].plane_offset_m if contours else 0.0
-        where = f"at height z = {_metres(offset)}" if view == "plan" else f"in the plane y = {_metres(offset)}"
-        story.append(s.para(f"{caption}, {where}; to scale, both axes in metres.", s.subheading))
         story.append(drawing)
         drawn = True
     if not drawn:

@@ -188,3 +188,23 @@ def test_an_empty_assessment_still_gives_a_complete_document():
     for heading in ("Findings", "Checklist before work starts", "Keep-out maps", "Sign-off",
                     "What this document does not replace"):
         assert heading in text
+
+
+def test_maps_show_the_setup_parts_to_scale_with_the_contour_lines():
+    from planner.setup import parse_setup
+    from reports.pdf import inputs_from_setup
+
+    setup = parse_setup("""
+title: Map bench
+magnets:
+  - {id: disc-a, shape: cylinder, diameter: 50 mm, height: 25 mm, grade: N42,
+     at: [-400 mm, 0 mm, 12.5 mm], magnetization: +z}
+zones:
+  - {id: desk-b, kind: desk, from: [1 m, -0.5 m, 0 m], to: [1.5 m, 0 m, 0.5 m]}
+""")
+    inputs = inputs_from_setup(setup, sample_assessment("Map bench"), FINGERPRINT, created_epoch=EPOCH)
+    text = _flat(" ".join(pdf_text(render_pdf(inputs))))
+    assert "Plan, seen from above" in text and "Elevation, seen from the front" in text
+    assert "disc-a" in text and "desk-b" in text
+    # the keep-out label carries the Assessment's largest distance for that threshold (0.41 m)
+    assert "keep-out up to 410 mm" in text

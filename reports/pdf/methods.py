@@ -55,7 +55,10 @@ def references_section(inputs: ReportInputs, s: Styles) -> list:
                              [26 * mm, 16 * mm, 34 * mm, 52 * mm, 22 * mm, 24 * mm]))
     else:
         story.append(s.para("No thresholds were used."))
-    references = list(dict.fromkeys(list(assessment.references)
+    used = ({k.threshold_id for k in assessment.keep_out} | {c.threshold_id for c in assessment.contours}
+            | {z.threshold_id for z in assessment.zone_reach})
+    threshold_sources = [t.source for t in assessment.thresholds if t.id in used and t.source]
+    references = list(dict.fromkeys(list(assessment.references) + threshold_sources
                                     + [src for f in ff.ordered(inputs.findings) for src in ff.sources(f)]))
     story.append(s.para("References", s.heading))
     if references:

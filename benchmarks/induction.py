@@ -31,13 +31,18 @@ SMALL_COIL = Winding(400, 0.008, 0.011, 0.02, 4)  # 4 layers: every layer summed
 
 
 def best_time(function, repeats=5):
-    """Best wall time of ``repeats`` calls [s], and the last result."""
-    best, result = float("inf"), None
+    """Best wall time and best process CPU time of ``repeats`` calls [s].
+
+    The CPU time is what the computation costs on an idle machine; on a shared, loaded
+    machine the wall time can be several times longer.
+    """
+    best_wall, best_cpu = float("inf"), float("inf")
     for _ in range(repeats):
-        start = time.perf_counter()
-        result = function()
-        best = min(best, time.perf_counter() - start)
-    return best, result
+        start, start_cpu = time.perf_counter(), time.process_time()
+        function()
+        best_cpu = min(best_cpu, time.process_time() - start_cpu)
+        best_wall = min(best_wall, time.perf_counter() - start)
+    return best_wall, best_cpu
 
 
 def main():
@@ -66,11 +71,11 @@ def main():
         ("coupling table, 5 distances x 4 angles", lambda: coupling_table(
             SMALL_COIL, SMALL_COIL, np.linspace(0.03, 0.1, 5), np.radians([0, 30, 60, 90])), None),
     ]
-    print(f"{'computation':<80} {'time':>10}  target")
+    print(f"{'computation':<80} {'wall':>9} {'cpu':>9}  target (on wall time)")
     for name, function, target in cases:
-        elapsed, _ = best_time(function)
-        verdict = "" if target is None else (f"< {target * 1e3:.0f} ms " + ("met" if elapsed < target else "MISSED"))
-        print(f"{name:<80} {elapsed * 1e3:8.1f} ms  {verdict}")
+        wall, cpu = best_time(function)
+        verdict = "" if target is None else (f"< {target * 1e3:.0f} ms " + ("met" if wall < target else "MISSED"))
+        print(f"{name:<80} {wall * 1e3:6.1f} ms {cpu * 1e3:6.1f} ms  {verdict}")
 
 
 if __name__ == "__main__":

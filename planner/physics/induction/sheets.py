@@ -101,8 +101,10 @@ def _sheet_integral(a, rho, u):
     with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
         first = _k_minus_e_over_m(m, kc2)
         bore = g2 > 0.0
-        second = np.zeros_like(first)
-        if np.any(bore):
+        if np.all(bore):
+            second = g2 * bulirsch_cel(np.sqrt(kc2), g2, 0.0, 1.0)
+        else:                                # circle on the sheet's radius: the term vanishes
+            second = np.zeros_like(first)
             second[bore] = g2[bore] * bulirsch_cel(np.sqrt(kc2[bore]), g2[bore], 0.0, 1.0)
         value = 2.0 * u / np.sqrt(s2) * (first - second)
     good = (u != 0.0) & (rho > 0.0) & (a > 0.0) & (kc2 > 0.0)

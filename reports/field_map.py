@@ -118,7 +118,8 @@ def build_drawing(scene: MapScene, width_mm: float = 180.0, max_height_mm: float
     span = high - low
     width_pt, height_pt = width_mm / 25.4 * 72, max_height_mm / 25.4 * 72
     scale = min(width_pt / span[0], height_pt / span[1])  # points per metre of the setup
-    left, bottom, top_band, legend_rows = 30.0, 46.0, 30.0, len(scene.lines) + len(KIND_STYLE) + len(scene.notes)
+    left, bottom, top_band = 30.0, 46.0, 30.0
+    legend_rows = len(scene.lines) + len({shape.kind for shape in scene.shapes}) + len(scene.notes)
     legend_height = 14.0 * legend_rows + 20
     drawing = Drawing(width_pt + 2 * left, span[1] * scale + bottom + top_band + legend_height)
 
@@ -218,7 +219,10 @@ def _add_legend(drawing, scene, x, top):
         text = f"field reaches {line.threshold_label} inside this line"
         text += f" ({line.distance_label})" if line.distance_label else ""
         drawing.add(String(x + 38, y, text, fontName="Helvetica", fontSize=7.5))
+    present = {shape.kind for shape in scene.shapes}
     for kind, (fill, stroke, width, dash) in KIND_STYLE.items():
+        if kind not in present:
+            continue
         y -= 14
         drawing.add(_style(Rect(x + 8, y - 1, 14, 8), stroke, width, dash, fill))
         drawing.add(String(x + 38, y, KIND_WORDS[kind], fontName="Helvetica", fontSize=7.5))

@@ -98,7 +98,7 @@ def field_and_gradient(bodies, points, allowed_error):
     return size, error, gradient, gradient_error, geometry
 
 
-def certified_depth(bodies, points, axes, radii, half_angles, threshold, allowed_error, iterations=24):
+def certified_depth(bodies, points, axes, radii, half_angles, threshold, allowed_error, iterations=14):
     """Largest s [m] such that every cone point with radius in [r - s, r] has |B| < threshold.
 
     ``points`` are the axis points at ``radii`` along unit ``axes``; the cone half-angles are

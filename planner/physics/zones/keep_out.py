@@ -58,11 +58,12 @@ def farthest_start_radius(bodies: list[MagnetBody], index: int, threshold: float
 
     Notes
     -----
-    In that cell every other centre is at least as far as c, d_i >= r, so with the dipole
-    value and the multipole error bound of each body (``zones.bounds``)
-    |B| <= sum_i [2 k m_i / r^3 + 12 k m_i s_i^2 / (r - a_i)^5],  k = mu0/4pi,
-    valid for r > a_i. The right side falls with r; bisection finds where it meets the
-    threshold.
+    In that cell every other centre is at least as far as c, d_i >= r, and d_i >= g_i - r
+    with g_i the distance between the centres; for all radii r >= R both give
+    d_i >= max(R, g_i / 2) = e_i. With the dipole value and the multipole error bound of each
+    body (``zones.bounds``), |B| <= sum_i [2 k m_i / e_i^3 + 12 k m_i s_i^2 / (e_i - a_i)^5],
+    k = mu0/4pi, valid for e_i > a_i. The right side falls with R; bisection finds where it
+    meets the threshold.
 
     References
     ----------
@@ -77,12 +78,14 @@ def farthest_start_radius(bodies: list[MagnetBody], index: int, threshold: float
     """
     moments, reach, square = bounds.body_constants(bodies)
     k = bounds.K
+    half_gap = np.array([np.linalg.norm(b.center - bodies[index].center) / 2 for b in bodies])
 
     def bound(r):
-        gap = np.maximum(r - reach, 1e-300)
-        return np.sum(2 * k * moments / r**3 + 12 * k * moments * square / gap**5)
+        distance = np.maximum(r, half_gap)
+        gap = np.maximum(distance - reach, 1e-300)
+        return np.sum(2 * k * moments / distance**3 + 12 * k * moments * square / gap**5)
 
-    low = max(float(np.max(reach)) * (1 + 1e-9), 1e-6)
+    low = max(float(np.max(reach - half_gap)) * (1 + 1e-9), float(reach[index]) * (1 + 1e-9), 1e-6)
     if bound(low) < threshold:
         return low
     high = 2 * low

@@ -1,0 +1,64 @@
+"""Speed of the zone calculations on an invented 30-magnet bench layout (run by hand).
+
+    python benchmarks/zones.py [--magnets 30] [--resolution 400]
+
+Times (1) keep-out distances for every magnet at the default thresholds 0.1, 0.5, 1, 2, 3, 6
+and 400 mT, and (2) a plan map of the total field on a resolution x resolution grid with its
+contours at the same thresholds. Targets: under 1 s each. The layout is invented for the
+benchmark: discs and blocks of N35-N52 and ferrite spaced along a 2 m bench.
+"""
+from __future__ import annotations
+
+import argparse
+import time
+
+import numpy as np
+
+from planner.physics.bodies import MagnetBody, rotation_from_axis
+from planner.physics.zones import field_contours, keep_out_radii
+
+DEFAULT_THRESHOLDS = np.array([0.1, 0.5, 1, 2, 3, 6, 400]) * 1e-3
+
+
+def layout(count, seed=5):
+    rng = np.random.default_rng(seed)
+    bodies = []
+    for k in range(count):
+        centre = [-1.0 + 2.0 * k / max(count - 1, 1), rng.uniform(-0.3, 0.3), 0.0]
+        axis = rng.normal(size=3)
+        remanence = rng.choice([0.4, 1.2, 1.3, 1.45])
+        direction = axis / np.linalg.norm(axis)
+        if k % 3 == 2:
+            body = MagnetBody("block", centre, rotation_from_axis(axis), remanence * direction,
+                              size=rng.uniform(5e-3, 25e-3, size=3))
+        else:
+            body = MagnetBody("cylinder", centre, rotation_from_axis(axis), remanence * direction,
+                              diameter=rng.uniform(5e-3, 25e-3), height=rng.uniform(3e-3, 12e-3))
+        bodies.append(body)
+    return bodies
+
+
+def main():
+    parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
+    parser.add_argument("--magnets", type=int, default=30)
+    parser.add_argument("--resolution", type=int, default=400)
+    options = parser.parse_args()
+    bodies = layout(options.magnets)
+
+    start = time.perf_counter()
+    radii = np.array([keep_out_radii(bodies, i, DEFAULT_THRESHOLDS) for i in range(len(bodies))])
+    keep_out_seconds = time.perf_counter() - start
+    print(f"keep-out, {len(bodies)} magnets x {len(DEFAULT_THRESHOLDS)} thresholds: {keep_out_seconds:.2f} s "
+          f"({keep_out_seconds / radii.size * 1e3:.0f} ms each)")
+    print("  largest distance per threshold [cm]:",
+          ", ".join(f"{t * 1e3:g} mT {r * 100:.1f}" for t, r in zip(DEFAULT_THRESHOLDS, radii.max(axis=0))))
+
+    start = time.perf_counter()
+    lines = field_contours(bodies, DEFAULT_THRESHOLDS, view="plan", offset=0.0, resolution=options.resolution)
+    map_seconds = time.perf_counter() - start
+    print(f"plan map {options.resolution} x {options.resolution} with contours: {map_seconds:.2f} s "
+          f"({sum(len(v) for v in lines.values())} closed lines)")
+
+
+if __name__ == "__main__":
+    main()

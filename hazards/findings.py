@@ -23,7 +23,7 @@ from planner.assessment import Threshold
 
 __all__ = ["Finding", "SEVERITIES", "BLOCKING", "ACTION", "NOTE", "severity_rank", "DEFERRAL",
            "deferral_line", "show", "show_field", "threshold_text", "source_entry", "threshold_map",
-           "missing_figure", "is_number"]
+           "missing_figure", "is_number", "plain_number"]
 
 BLOCKING, ACTION, NOTE = "blocking", "action", "note"
 #: Severities from least to most pressing.
@@ -115,6 +115,15 @@ _UNITS = {
 }
 
 
+def plain_number(value: float) -> str:
+    """Three significant figures, without exponents below a million: 3621.7 -> ``3 620``."""
+    if is_number(value):
+        rounded = float(f"{value:.3g}")
+        if 1e3 <= abs(rounded) < 1e6:
+            return f"{rounded:,.0f}".replace(",", " ")
+    return f"{value:.3g}"
+
+
 def show_field(tesla) -> str:
     """A flux density for people: ``0.5 mT``, ``1.32 T``, ``0.525 uT``."""
     if not is_number(tesla):
@@ -138,17 +147,19 @@ def show(value, kind: str) -> str:
     if kind == "ratio":
         return f"{value:.3g}"
     if kind == "flux_index":
-        return f"{value / 1e-8:.3g} kG^2 mm^2"
+        return f"{plain_number(value / 1e-8)} kG^2 mm^2"
     if kind == "age":
         return f"{value:g} years"
     if kind == "coercivity":
         return f"{value / 1e3:.3g} kA/m"
     scales = _UNITS.get(kind, [(1.0, "")])
+    if value == 0:
+        return f"0 {next((u for f, u in scales if f == 1.0), scales[0][1])}".strip()
     for scale, unit in scales:
         if abs(value) >= scale:
-            return f"{value / scale:.3g} {unit}".strip()
+            return f"{plain_number(value / scale)} {unit}".strip()
     scale, unit = scales[-1]
-    return f"{value / scale:.3g} {unit}".strip()
+    return f"{plain_number(value / scale)} {unit}".strip()
 
 
 def threshold_text(threshold: Threshold) -> str:
@@ -188,6 +199,6 @@ def missing_figure(concern: str, what: str, checklist: str, severity: str = ACTI
     slug = "-".join("".join(c if c.isalnum() else " " for c in what.lower()).split())[:60]
     return Finding(
         id=f"{concern}.missing.{slug}", severity=severity, concern=concern,
-        title=f"Not checked: {what} is missing from the computed figures",
+        title=f"Not checked: {what} (not among the computed figures)",
         why=f"The {concern} check needs {what}; without it benchplan cannot say whether a threshold is passed.",
         checklist=[checklist])

@@ -8,8 +8,8 @@ from __future__ import annotations
 
 import textwrap
 
-from hazards.findings import (DEFERRAL, SEVERITIES, SEVERITY_MEANINGS, deferral_line, is_number, show, show_field,
-                              threshold_text)
+from hazards.findings import (DEFERRAL, SEVERITIES, SEVERITY_MEANINGS, deferral_line, is_number, plain_number, show,
+                              show_field, threshold_text)
 
 __all__ = ["render_terminal"]
 
@@ -52,7 +52,7 @@ def render_terminal(setup, assessment) -> str:
     _listed(out, "Notes", getattr(assessment, "notes", []))
     _findings(out, assessment)
     out.append("")
-    out += _wrap(deferral_line(setup) if setup is not None else DEFERRAL, "")
+    out += _wrap(deferral_line(setup) if setup is not None else DEFERRAL, "", "")
     return "\n".join(out) + "\n"
 
 
@@ -87,7 +87,7 @@ def _magnets(out, assessment):
     _heading(out, "Magnets")
     rows = []
     for m in assessment.magnets:
-        index = f"{m.flux_index_kG2_mm2:.3g}" if is_number(m.flux_index_kG2_mm2) else "n/a"
+        index = plain_number(m.flux_index_kG2_mm2) if is_number(m.flux_index_kG2_mm2) else "n/a"
         rows.append([m.id, f"{m.shape} {m.size}", m.material, show_field(m.remanence_T), m.count,
                      show(m.mass_kg, "mass"), show_field(m.pole_face_field_T), index,
                      "yes" if m.fits_small_parts_cylinder else "no"])

@@ -39,8 +39,8 @@ def _keep_out_line(line, distances, table, screened) -> Finding:
                for magnet, distance in distances.items()]
     numbers = [d for d in distances.values() if is_number(d)]
     largest = show(max(numbers), "length") if numbers else "not available"
-    checklist = [f"Mark the implant keep-out line ({threshold_text(line)}) at {largest} from the nearest magnet, "
-                 "with a sign at every way in.",
+    checklist = [f"Mark the implant keep-out line {largest} from the nearest magnet, with a sign at every way in "
+                 f"(threshold {threshold_text(line)}).",
                  "Tell everyone before entry that people with pacemakers, defibrillators, pumps or "
                  "neurostimulators stay outside the line."]
     if screened:

@@ -53,30 +53,37 @@ def pinch(setup, assessment, thresholds) -> list:
                 sources=[source_entry(t) for t, _, _ in passed]))
         findings.append(_handling(pair, name, key, figures, table))
     if pairs:
-        findings.append(_storage(pairs))
+        findings += [_rules(pairs), _storage(pairs)]
     return findings
 
 
 def _handling(pair, name, key, figures, table) -> Finding:
     snap = [d for d in (pair.snap_distance_bench_m, pair.snap_distance_hand_m) if is_number(d)]
     snap_text = show(max(snap), "length") if snap else "a distance to be found carefully"
-    checklist = [f"Keep {name} at least {snap_text} apart except when joining them on purpose.",
-                 "Handle one magnet at a time; put the others away first.",
-                 "Separate joined magnets by sliding them apart sideways, not by pulling.",
-                 "Keep non-magnetic spacers (wood, plastic) between magnets in use."]
-    cautions = [f"The parts jump together from {snap_text}."]
-    if pair.both_brittle:
-        checklist.append("Wear safety glasses: brittle magnets chip or shatter when they snap together.")
-        cautions.append("NdFeB and ferrite are brittle; fragments fly at speed (common practice).")
-    cautions += list(pair.warnings or [])
     return Finding(
         id=f"pinch.handling.{key}", severity=ACTION, concern=CONCERN,
         title=f"Handling {name}: they snap together from {snap_text}",
         figures=[("snap distance sliding on the bench", show(pair.snap_distance_bench_m, "length")),
                  ("snap distance held in the hand", show(pair.snap_distance_hand_m, "length"))] + figures,
         why="Inside the snap distance the attraction beats the hand's grip or the bench friction.",
-        cautions=cautions, checklist=checklist,
+        cautions=list(pair.warnings or []),
+        checklist=[f"Keep {name} at least {snap_text} apart except when joining them on purpose."],
         sources=[source_entry(table["hand_force_quasi_static"]), source_entry(table["hand_energy_transient"])])
+
+
+def _rules(pairs) -> Finding:
+    checklist = ["Handle one magnet at a time; put the others away first.",
+                 "Separate joined parts by sliding them apart sideways, not by pulling them straight off.",
+                 "Keep non-magnetic spacers (wood, plastic) ready and between magnets in use."]
+    cautions = []
+    if any(p.both_brittle for p in pairs):
+        checklist.append("Wear safety glasses: brittle magnets chip or shatter when they snap together.")
+        cautions.append("NdFeB and ferrite are brittle; fragments fly at speed (common practice).")
+    return Finding(
+        id="pinch.handling-rules", severity=ACTION, concern=CONCERN,
+        title="Handling rules for magnets that snap together",
+        why="Most magnet injuries happen while joining or separating parts by hand.",
+        cautions=cautions, checklist=checklist)
 
 
 def _storage(pairs) -> Finding:

@@ -1,7 +1,7 @@
 """Small strong magnets and children: the flux index and the small-parts cylinder."""
 from __future__ import annotations
 
-from hazards.findings import BLOCKING, NOTE, Finding, is_number, source_entry, threshold_map, \
+from hazards.findings import BLOCKING, NOTE, Finding, is_number, show, source_entry, threshold_map, \
     threshold_text
 from hazards.rules.common import audience_has_children, items
 
@@ -23,10 +23,10 @@ def small_magnets(setup, assessment, thresholds) -> list:
         if not (strong and magnet.fits_small_parts_cylinder):
             continue
         count = magnet.count if isinstance(magnet.count, int) and magnet.count > 0 else 1
-        figures = [("flux index", f"{index:.3g} kG^2 mm^2" if known else "not available"),
+        figures = [("flux index", show(index * KG2_MM2, "flux_index") if known else "not available"),
                    ("hazardous at or above", threshold_text(limit)),
                    ("fits the small-parts cylinder", "yes"), ("pieces", str(count))]
-        checklist = [f"Count the `{magnet.id}` magnets out at the start and back in at the end ({count} pieces).",
+        checklist = [f"Count the `{magnet.id}` magnets out at the start and back in at the end ({count} piece{'s' if count != 1 else ''}).",
                      "Search for and account for any missing piece before anyone leaves."]
         cautions = ["Two or more swallowed magnets can attract each other through the bowel walls and perforate "
                     "them; seek medical help at once if one may have been swallowed."]

@@ -16,6 +16,10 @@ def findings_section(inputs: ReportInputs, s: Styles) -> list:
     if not findings:
         story.append(s.para("The rules raised no findings for this setup."))
         return story
+    deferrals = [ff.text_of(getattr(f, "deferral", "")) for f in findings]
+    common = deferrals[0] if deferrals and all(d == deferrals[0] for d in deferrals) else ""
+    if common:
+        story.append(s.para(common, s.small))
     for number, finding in enumerate(findings, start=1):
         first = "Settle before work starts. " if ff.blocking(finding) else ""
         head = s.markup(f"{number}. {safe(ff.title(finding), s.fonts)}", s.subheading)
@@ -41,6 +45,6 @@ def findings_section(inputs: ReportInputs, s: Styles) -> list:
         if sources:
             story.append(s.para("Sources: " + "; ".join(sources), s.small))
         deferral = ff.text_of(getattr(finding, "deferral", ""))
-        if deferral:
+        if deferral and deferral != common:
             story.append(s.para(deferral, s.small))
     return story

@@ -49,6 +49,21 @@ def test_snap_distance_of_a_known_law():
     assert snap_distance(lambda gap: k / (gap + a) ** 4, 1e6, 0.01) == 0.0  # never reached
 
 
+def test_vectorized_search_matches_closed_form_in_one_scan_call():
+    # independent closed form as above; a vectorized function is called once for the whole
+    # scan (plus single points for the bracket and Brent's refinement)
+    from planner.physics.handling.search import largest_exceeding
+    k, a, level = 2e-8, 5e-3, 0.3
+    calls = []
+
+    def law(gaps):
+        calls.append(np.size(gaps))
+        return k / (np.asarray(gaps) + a) ** 4
+    found = largest_exceeding(law, level, 0.01, vectorized=True)
+    assert found == pytest.approx((k / level) ** 0.25 - a, abs=2e-9)  # root tolerance 1 nm
+    assert sum(size > 1 for size in calls) == 1 and max(calls) == 49  # 48 samples and the start
+
+
 def test_bench_friction_is_coulomb_friction():
     # Coulomb's law mu m g with standard gravity (scipy.constants.g = 9.80665 m/s^2)
     assert bench_friction_force(0.2, 0.4) == pytest.approx(0.4 * 0.2 * 9.80665, rel=1e-12)

@@ -202,8 +202,9 @@ def projectile_attraction(field, origin, direction, distances, item: SteelItem) 
 
 
 def _line_function(field, origin, direction, item):
+    """The pull along the line as a function of an array of distances (one field call)."""
     field = _as_field(field)
-    return lambda s: float(projectile_attraction(field, origin, direction, s, item)[0])
+    return lambda s: projectile_attraction(field, origin, direction, s, item)
 
 
 def pull_off_distance(field, origin, direction, item: SteelItem,
@@ -220,7 +221,8 @@ def pull_off_distance(field, origin, direction, item: SteelItem,
     Schenck (2000); ASTM F2052.
     """
     level = static_friction * item.mass * STANDARD_GRAVITY
-    return largest_exceeding(_line_function(field, origin, direction, item), level, search_limit)
+    return largest_exceeding(_line_function(field, origin, direction, item), level, search_limit,
+                             vectorized=True)
 
 
 def lift_distance(field, origin, direction, item: SteelItem, search_limit: float = 0.5) -> float:
@@ -236,7 +238,8 @@ def lift_distance(field, origin, direction, item: SteelItem, search_limit: float
     ASTM F2052; Schenck (2000).
     """
     level = item.mass * STANDARD_GRAVITY
-    return largest_exceeding(_line_function(field, origin, direction, item), level, search_limit)
+    return largest_exceeding(_line_function(field, origin, direction, item), level, search_limit,
+                             vectorized=True)
 
 
 def gradient_distance(field, origin, direction, threshold: float | None = None,
@@ -266,4 +269,4 @@ def gradient_distance(field, origin, direction, threshold: float | None = None,
         threshold = STEEL_DENSITY * STANDARD_GRAVITY / IRON_SATURATION_MAGNETIZATION
     saturated = SteelItem(1.0, 0.0, np.inf, 1.0)  # pull = -d|B|/ds exactly
     return largest_exceeding(_line_function(field, origin, direction, saturated), threshold,
-                             search_limit)
+                             search_limit, vectorized=True)

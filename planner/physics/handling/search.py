@@ -12,7 +12,7 @@ from scipy.optimize import brentq
 
 
 def largest_exceeding(function, level: float, search_limit: float, smallest: float = 0.0,
-                      samples: int = 48, xtol: float = 1e-9) -> float:
+                      samples: int = 48, xtol: float = 1e-9, vectorized: bool = False) -> float:
     """Largest x in [smallest, inf) where ``function(x) > level``.
 
     Parameters
@@ -30,6 +30,9 @@ def largest_exceeding(function, level: float, search_limit: float, smallest: flo
         Points of the geometric scan between ``smallest`` and ``search_limit``.
     xtol : float
         Absolute tolerance of the final root [m].
+    vectorized : bool
+        True if ``function`` takes an array of distances and returns an array of values:
+        the whole scan is then one call.
 
     Returns
     -------
@@ -48,20 +51,29 @@ def largest_exceeding(function, level: float, search_limit: float, smallest: flo
     --------
     >>> round(largest_exceeding(lambda x: 1 / (1 + x) ** 4, 1 / 16, 10.0), 9)
     1.0
+    >>> round(largest_exceeding(lambda x: 1 / (1 + x) ** 4, 1 / 16, 10.0, vectorized=True), 9)
+    1.0
     """
-    if not function(smallest) > level:
+    def scalar(x):
+        if vectorized:
+            return float(np.asarray(function(np.array([x], dtype=float))).ravel()[0])
+        return function(x)
+    if not scalar(smallest) > level:
         return 0.0
     high = float(search_limit)
     for _ in range(40):
-        if not function(high) > level:
+        if not scalar(high) > level:
             break
         high *= 2
     else:
         return float("inf")
     start = smallest if smallest > 0 else high * 1e-4
     grid = np.concatenate([[smallest], np.geomspace(start, high, samples)])
-    values = np.array([function(x) for x in grid])
+    if vectorized:
+        values = np.asarray(function(grid), dtype=float).ravel()
+    else:
+        values = np.array([function(x) for x in grid])
     above = np.nonzero(values > level)[0]
     last = above[-1]
-    return float(brentq(lambda x: function(x) - level, grid[last], grid[last + 1], xtol=xtol,
+    return float(brentq(lambda x: scalar(x) - level, grid[last], grid[last + 1], xtol=xtol,
                         rtol=1e-12))

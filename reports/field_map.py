@@ -81,7 +81,7 @@ def round_length(longest: float) -> float:
     (0.2, 0.05, 1.0)
     """
     power = 10 ** math.floor(math.log10(longest))
-    return max(step * power for step in (1, 2, 5) if step * power <= longest * (1 + 1e-12))
+    return float(max(step * power for step in (1, 2, 5) if step * power <= longest * (1 + 1e-12)))
 
 
 def _scene_box(scene):

@@ -31,10 +31,11 @@ def objects(setup, assessment, thresholds) -> list:
                 CONCERN, f"the largest field in zone {zone.id}",
                 f"Measure the field in `{zone.id}` with a gaussmeter before work starts."))
             continue
+        groups: dict[str, list[str]] = {}
         for content in contents:
-            threshold_id = CONTENT_THRESHOLD.get(content)
-            if threshold_id is None:
-                continue
+            if content in CONTENT_THRESHOLD:
+                groups.setdefault(CONTENT_THRESHOLD[content], []).append(content)
+        for threshold_id, named in groups.items():
             threshold = table[threshold_id]
             limit, limit_text, origin = threshold.value, threshold_text(threshold), "table"
             own_limit = getattr(zone, "instrument_limit", None)
@@ -42,12 +43,14 @@ def objects(setup, assessment, thresholds) -> list:
                 limit, limit_text, origin = own_limit, f"{show_field(own_limit)} (the instruments' own limit)", "zone"
             if not reaches(field, limit):
                 continue
+            what = ", ".join(n.replace("_", " ") for n in named)
             findings.append(Finding(
-                id=f"objects.{zone.id}.{content}", severity=ACTION, concern=CONCERN,
-                title=f"The field in `{zone.id}` reaches the {content.replace('_', ' ')} threshold",
-                figures=[("largest field in the zone", show_field(field)), (f"{content} threshold", limit_text)],
+                id=f"objects.{zone.id}.{threshold_id}", severity=ACTION, concern=CONCERN,
+                title=f"The field in `{zone.id}` can affect the {what} there",
+                figures=[("largest field in the zone", show_field(field)),
+                         (f"{threshold_id.replace('_', ' ')} threshold", limit_text)],
                 why=f"In this {zone.kind} zone {_EFFECT[threshold_id]}.",
-                checklist=[f"Move the {content.replace('_', ' ')} out of `{zone.id}`, or move the magnets until the "
+                checklist=[f"Move the {what} out of `{zone.id}`, or move the magnets until the "
                            f"field there is below {show_field(limit)}."],
                 sources=[source_entry(threshold)] if origin == "table" else
                 [("instrument_limit", f"zone `{zone.id}`: the instruments' own specification, which wins over "

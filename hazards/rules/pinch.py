@@ -51,7 +51,9 @@ def pinch(setup, assessment, thresholds) -> list:
                 checklist=[f"Bring {name} together only in a jig or with a non-magnetic spacer at least "
                            f"{show(pair.finger_gap_m, 'length')} thick, never with fingers between them."],
                 sources=[source_entry(t) for t, _, _ in passed]))
-        findings.append(_handling(pair, name, key, figures, table))
+        snap = [d for d in (pair.snap_distance_bench_m, pair.snap_distance_hand_m) if is_number(d)]
+        if not snap or max(snap) > 0:   # parts that never jump together need no separation rule
+            findings.append(_handling(pair, name, key, figures, table))
     if pairs:
         findings += [_rules(pairs), _storage(pairs)]
     return findings

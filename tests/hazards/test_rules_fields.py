@@ -96,7 +96,7 @@ def test_objects_in_zones(content, threshold_id, factor, expected):
     setup = setup_from(ZONE.format(contents=content))
     a = assessment(magnets=[magnet()],
                    zone_reach=[zone_reach("desk", "implant_keep_out", T[threshold_id].value * factor, kind="desk")])
-    assert (f"objects.desk.{content}" in ids(objects(setup, a, list(T.values())))) is expected
+    assert (f"objects.desk.{threshold_id}" in ids(objects(setup, a, list(T.values())))) is expected
 
 
 @pytest.mark.parametrize("factor, expected", [(ABOVE, True), (BELOW, False)])
@@ -165,3 +165,11 @@ def test_reached_flag_of_the_calculation_is_honoured_for_the_same_value():
     assert "implants.zone.front-row" in ids(implants(setup_from(audience=MAY_BE_PRESENT), a, list(T.values())))
     row.threshold_T = 1e-3   # flagged for another value: not used
     assert "implants.zone.front-row" not in ids(implants(setup_from(audience=MAY_BE_PRESENT), a, list(T.values())))
+
+
+def test_computers_and_storage_media_in_one_zone_give_one_finding():
+    setup = setup_from(ZONE.format(contents="computers, storage_media"))
+    a = assessment(magnets=[magnet()], zone_reach=[zone_reach("desk", "cards", 3e-3, kind="desk")])
+    found = [f for f in objects(setup, a, list(T.values())) if f.id.startswith("objects.desk.")]
+    assert [f.id for f in found] == ["objects.desk.storage_media"]
+    assert "computers, storage media" in found[0].title

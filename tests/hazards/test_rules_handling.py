@@ -171,3 +171,7 @@ def test_repelling_against_coercivity(coercivity_factor, expected):
     strong = magnet("disc2", pole_face_field_T=face, coercivity_min_A_per_m=2e6)
     a = assessment(magnets=[weak, strong], pairs=[pair()])
     assert ("temperature.repel.disc.disc2" in ids(temperature(setup_from(), a, list(T.values())))) is expected
+
+
+def test_parts_that_never_snap_get_no_separation_rule():
+    assert "pinch.handling.disc.disc2" not in _pinch(snap_distance_bench_m=0.0, snap_distance_hand_m=0.0)

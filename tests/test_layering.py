@@ -1,0 +1,69 @@
+"""The direction of imports (DESIGN.md): physics <- setup/assess <- hazards <- reports <- cli.
+
+Checked on the source text with ast, so a forbidden import anywhere in a module (also inside a
+function) fails here.
+"""
+import ast
+from pathlib import Path
+
+import pytest
+
+ROOT = Path(__file__).resolve().parents[1]
+
+
+def imported_modules(path: Path) -> set[str]:
+    tree = ast.parse(path.read_text(encoding="utf-8"))
+    names = set()
+    for node in ast.walk(tree):
+        if isinstance(node, ast.Import):
+            names |= {alias.name for alias in node.names}
+        elif isinstance(node, ast.ImportFrom) and node.module and node.level == 0:
+            names.add(node.module)
+    return names
+
+
+def modules_under(folder: str) -> list[Path]:
+    return sorted((ROOT / folder).rglob("*.py"))
+
+
+def _starts(name: str, prefixes) -> bool:
+    return any(name == p or name.startswith(p + ".") for p in prefixes)
+
+
+@pytest.mark.parametrize("path", modules_under("planner/physics"), ids=lambda p: str(p.relative_to(ROOT)))
+def test_physics_sees_no_setup_and_does_no_io(path):
+    forbidden = ("planner.setup", "planner.calculations", "planner.assess", "planner.cli", "hazards", "reports",
+                 "yaml", "click", "pint", "magpylib", "planner.units")
+    bad = [n for n in imported_modules(path) if _starts(n, forbidden)]
+    assert not bad, f"{path.name} imports {bad}"
+
+
+@pytest.mark.parametrize("path", [p for p in modules_under("planner") if not p.name.startswith("cli")
+                                  and p.name != "assess.py"], ids=lambda p: str(p.relative_to(ROOT)))
+def test_planner_does_not_import_hazards_or_reports(path):
+    bad = [n for n in imported_modules(path) if _starts(n, ("hazards", "reports"))]
+    assert not bad, f"{path.name} imports {bad}"
+
+
+def test_assess_imports_only_hazards_at_the_composition_point():
+    names = imported_modules(ROOT / "planner/assess.py")
+    assert not any(_starts(n, ("reports",)) for n in names)
+
+
+@pytest.mark.parametrize("path", modules_under("hazards"), ids=lambda p: str(p.relative_to(ROOT)))
+def test_hazards_never_draw_or_compute_physics(path):
+    bad = [n for n in imported_modules(path) if _starts(n, ("reports", "planner.physics", "planner.calculations",
+                                                            "reportlab", "planner.cli"))]
+    assert not bad, f"{path.name} imports {bad}"
+
+
+@pytest.mark.parametrize("path", modules_under("reports"), ids=lambda p: str(p.relative_to(ROOT)))
+def test_reports_never_compute_physics(path):
+    bad = [n for n in imported_modules(path) if _starts(n, ("planner.physics", "planner.calculations", "scipy"))]
+    assert not bad, f"{path.name} imports {bad}"
+
+
+def test_runtime_never_imports_the_reference_library():
+    for folder in ("planner", "hazards", "reports"):
+        for path in modules_under(folder):
+            assert "magpylib" not in imported_modules(path), path

@@ -1,6 +1,6 @@
 """Malformed setup files: one per error path, each message naming the key path and the line.
 
-Every case starts from VALID (a setup that loads) and changes one thing. The expected line is
+Most cases start from VALID (a setup that loads) and change one thing. The expected line is
 found in the broken text itself (the line holding a marker), so the check is independent of
 the loader. A good share of the cases also runs through `benchplan check`, which must exit 2
 with the same message and no traceback.
@@ -358,6 +358,12 @@ CASES = [
 
 def _ids(cases):
     return [c.name for c in cases]
+
+
+def test_the_starting_setup_is_valid():
+    # Every case changes one thing in VALID, so VALID itself must load.
+    setup = parse_setup(VALID)
+    assert [m.id for m in setup.magnets] == ["disc", "ring", "cube", "ball"]
 
 
 def test_there_is_a_case_for_at_least_thirty_error_paths():

@@ -1,9 +1,7 @@
-"""Shared fixtures: where the example setups live, and a small valid setup to break."""
+"""Shared test helpers: where the example setups live."""
 from __future__ import annotations
 
 from pathlib import Path
-
-import pytest
 
 REPOSITORY = Path(__file__).resolve().parent.parent
 SETUPS = REPOSITORY / "setups"
@@ -14,8 +12,3 @@ NOT_SETUPS = {"example-site-rules.yaml"}
 def example_setup_paths() -> list[Path]:
     """Every example setup file (site-rules files excluded)."""
     return sorted(p for p in SETUPS.glob("*.yaml") if p.name not in NOT_SETUPS)
-
-
-@pytest.fixture
-def setups_directory() -> Path:
-    return SETUPS

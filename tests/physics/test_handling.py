@@ -41,6 +41,23 @@ def test_snap_distance_inverse_check_and_monotone():
         assert exact_attraction(distance) == pytest.approx(level, rel=5e-3)
 
 
+def test_pair_attraction_remembers_gaps(monkeypatch):
+    # the two snap searches (bench, hand) share their gaps: each gap is integrated once;
+    # values against the exact Vokoun force
+    from planner.physics.handling import pinch
+    calls = []
+    original = pinch.force_between
+
+    def counting(*args, **kwargs):
+        calls.append(1)
+        return original(*args, **kwargs)
+    monkeypatch.setattr(pinch, "force_between", counting)
+    attraction = pair_attraction(TARGET, SOURCE, DOWN)
+    values = [attraction(gap) for gap in (0.0, 1e-3, 0.0, 1e-3)]
+    assert len(calls) == 2
+    assert values[0] == values[2] == pytest.approx(exact_attraction(0.0), rel=1e-9)
+
+
 def test_snap_distance_of_a_known_law():
     # independent closed form: attraction k/(g + a)^4 equals F at g = (k/F)^(1/4) - a
     k, a, level = 2e-8, 5e-3, 0.3

@@ -28,7 +28,8 @@ from planner.physics.forces.charge_model import (force_and_torque_by_charges,
 from planner.physics.forces.closed_forms import (bessel_pair_integral,
                                                  coaxial_cylinders_axial_force,
                                                  parallel_cuboids_force)
-from planner.physics.forces.pair import (approach_profile, extent_along, force_and_torque,
+from planner.physics.forces.pair import (approach_profile, charges_on_narrower_body,
+                                         energy_between, extent_along, force_and_torque,
                                          force_between, place_at_gap)
 from planner.physics.forces.steel import (LOW_CARBON_STEEL_SATURATION, PlateSaturation,
                                           mirror_in_plane, plate_saturation_check,
@@ -36,7 +37,8 @@ from planner.physics.forces.steel import (LOW_CARBON_STEEL_SATURATION, PlateSatu
 
 __all__ = [
     "LOW_CARBON_STEEL_SATURATION", "PlateSaturation", "approach_profile",
-    "bessel_pair_integral", "coaxial_cylinders_axial_force", "extent_along",
+    "bessel_pair_integral", "charges_on_narrower_body", "coaxial_cylinders_axial_force",
+    "energy_between", "extent_along",
     "force_and_torque", "force_and_torque_by_charges", "force_between",
     "interaction_energy", "mirror_in_plane", "parallel_cuboids_force", "place_at_gap",
     "plate_saturation_check", "steel_surface_force_and_torque",

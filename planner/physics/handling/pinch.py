@@ -27,8 +27,8 @@ from scipy.integrate import quad
 from scipy.optimize import minimize_scalar
 
 from planner.physics.bodies import MagnetBody, rotation_from_axis
-from planner.physics.forces import (extent_along, force_and_torque, force_between,
-                                    interaction_energy, place_at_gap,
+from planner.physics.forces import (energy_between, extent_along, force_and_torque,
+                                    force_between, place_at_gap,
                                     steel_surface_force_and_torque)
 from planner.physics.handling.search import largest_exceeding
 
@@ -197,10 +197,19 @@ def pair_attraction(target: MagnetBody, source: MagnetBody, approach, rtol: floa
     Notes
     -----
     attraction(g) = F(target at gap g) . u with :func:`planner.physics.forces.place_at_gap`.
+    Values are remembered by gap: the snap searches for the bench and the hand scan the
+    same gaps, and every search starts at contact, the dearest gap to integrate.
     """
     u = np.asarray(approach, dtype=float) / np.linalg.norm(approach)
-    return lambda gap: float(force_between(place_at_gap(target, source, u, gap), source,
-                                           rtol=rtol) @ u)
+    known: dict[float, float] = {}
+
+    def attraction(gap):
+        gap = float(gap)
+        if gap not in known:
+            known[gap] = float(force_between(place_at_gap(target, source, u, gap), source,
+                                             rtol=rtol) @ u)
+        return known[gap]
+    return attraction
 
 
 def attraction_to_steel(body: MagnetBody, plane_point, plane_normal, rtol: float = 1e-3):
@@ -341,7 +350,7 @@ def pair_handling(target: MagnetBody, source: MagnetBody, approach, target_mass:
 
     Notes
     -----
-    W = U(snap) - U(finger) from :func:`planner.physics.forces.interaction_energy`, 0 when
+    W = U(snap) - U(finger) from :func:`planner.physics.forces.energy_between`, 0 when
     the snap distance is inside the finger gap; v = sqrt(2 W / m_reduced); flip torque at
     the finger gap. The gap is measured along ``approach``
     (:func:`planner.physics.forces.place_at_gap`).
@@ -358,7 +367,7 @@ def pair_handling(target: MagnetBody, source: MagnetBody, approach, target_mass:
     snap = snap_distance(attraction, resisting_force, 10 * size)
 
     def energy(gap):
-        return interaction_energy(place_at_gap(target, source, u, gap), source)
+        return energy_between(place_at_gap(target, source, u, gap), source)
     work = energy(snap) - energy(finger_gap) if snap > finger_gap else 0.0
     return HandlingFigures(
         resisting_force=float(resisting_force), snap_distance=snap, finger_gap=finger_gap,

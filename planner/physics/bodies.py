@@ -152,8 +152,8 @@ def inside(body: MagnetBody, points, margin: float = 0.0) -> np.ndarray:
 
 
 def sample_points(body: MagnetBody, per_axis: int = 9) -> np.ndarray:
-    """A regular grid of points inside ``body`` (n, 3) [m], for overlap and clearance checks."""
-    t = (np.arange(per_axis) + 0.5) / per_axis * 2 - 1  # cell centres in (-1, 1)
+    """A regular grid of points in ``body``, its surface included (n, 3) [m], for overlap checks."""
+    t = np.linspace(-1.0, 1.0, per_axis)  # the ends lie on the surface, so shallow overlaps are caught
     u, v, w = np.meshgrid(t, t, t, indexing="ij")
     unit = np.column_stack([u.ravel(), v.ravel(), w.ravel()])
     if body.shape in ("cylinder", "ring"):
@@ -163,7 +163,7 @@ def sample_points(body: MagnetBody, per_axis: int = 9) -> np.ndarray:
     else:
         local = unit * body.diameter / 2
     points = local @ body.rotation.T + body.center
-    return points[inside(body, points)]
+    return points[inside(body, points, margin=-1e-9 * body.bounding_radius)]
 
 
 def surface_extent_across(body: MagnetBody, axis, samples: int = 720) -> float:

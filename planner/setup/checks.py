@@ -184,7 +184,7 @@ def _check_overlaps(setup, add) -> None:
             if np.linalg.norm(a.center - b.center) >= a.bounding_radius + b.bounding_radius:
                 continue
             margin = 1e-6 * max(a.bounding_radius, b.bounding_radius)
-            if inside(b, sample_points(a), margin).any() or inside(a, sample_points(b), margin).any():
+            if inside(b, sample_points(a, 25), margin).any() or inside(a, sample_points(b, 25), margin).any():
                 add(("magnets", second, "at"),
                     f"puts `{setup.magnets[second].id}` inside `{setup.magnets[first].id}`; two magnets cannot "
                     "overlap (describe a stack as one taller magnet, or move one)")

@@ -8,7 +8,10 @@ For each arrangement (coaxial, offset, tilted) and gap (1, 5, 20 mm) it reports:
   form to ~1e-8 where one exists);
 - the smallest magpylib meshing (test-only reference library, magpylib.getFT) from a
   geometric ladder whose force error is within 0.1 %, and its time;
-- the time of the exact fast paths (coaxial cylinders, parallel cuboids).
+- the time of the exact fast paths (coaxial cylinders, parallel cuboids);
+- the time of one call of the source's field at as many points as the first quadrature
+  pass uses (416 for a cylinder target magnetized along its axis): the floor under which
+  the general force cannot go without a lighter field evaluation.
 Times are the best of a few repeats on this machine.
 """
 from __future__ import annotations
@@ -87,6 +90,11 @@ def main():
                         ("parallel cuboids (Akoun & Yonnet)", (block_b, block_a))):
         elapsed, _ = best_time(lambda: force_between(*pair), repeats=50)
         print(f"fast path, {label}: {elapsed * 1e3:.3f} ms per force")
+    from planner.physics.fields import field_of_body
+
+    points = np.random.default_rng(1).normal(size=(416, 3)) * 3e-3 + [0, 0, 0.012]
+    elapsed, _ = best_time(lambda: field_of_body(SOURCE, points), repeats=50)
+    print(f"one field call at 416 points (the first pass): {elapsed * 1e3:.3f} ms")
 
 
 if __name__ == "__main__":

@@ -288,3 +288,21 @@ def test_energy_between_a_large_and_a_small_cylinder_gives_the_exact_force():
     slope = (energy(gap + step) - energy(gap - step)) / (2 * step)
     exact = coaxial_cylinders_axial_force(20e-3, 0, 10e-3, 1.2, 4e-3, 0, 4e-3, 1.3, 7e-3 + gap)
     assert slope == pytest.approx(-exact, rel=1e-4)  # attraction = dU/dgap = -F_axial
+
+
+@pytest.mark.parametrize("name", PAIRS)
+def test_force_and_torque_turn_with_the_pair(name):
+    # rotational invariance (physical identity): turning both bodies about the origin by Q
+    # turns force and torque by Q; the quadrature nodes are kept in each body's own frame
+    a, b = PAIRS[name]
+    turn = rotation_from_axis([0.3, -1.0, 0.6])
+
+    def turned(body):
+        return MagnetBody(body.shape, turn @ body.center, turn @ body.rotation, turn @ body.polarization,
+                          diameter=body.diameter, height=body.height,
+                          inner_diameter=body.inner_diameter, size=body.size)
+    force, torque = force_and_torque_by_charges(b, a, rtol=1e-6)
+    force_t, torque_t = force_and_torque_by_charges(turned(b), turned(a), rtol=1e-6)
+    scale = np.linalg.norm(force)
+    assert np.linalg.norm(force_t - turn @ force) <= 1e-5 * scale
+    assert np.linalg.norm(torque_t - turn @ torque) <= 1e-5 * (scale * b.bounding_radius + np.linalg.norm(torque))

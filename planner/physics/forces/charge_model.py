@@ -19,11 +19,14 @@ charge density M . n) and sec. 5.7 (energy of a magnetization in an external fie
 """
 from __future__ import annotations
 
+from functools import lru_cache
+
 import numpy as np
 from scipy.constants import mu_0
 
 from planner.physics.bodies import MagnetBody
-from planner.physics.forces.quadrature import adaptive_box_integral
+from planner.physics.forces.quadrature import (_box_arrays, adaptive_box_integral, box_nodes,
+                                               box_sums)
 
 #: Quadrature points are set this fraction of the target size inside the target, so that
 #: at contact they see the source field from the target's side of the shared surface.
@@ -207,26 +210,62 @@ def force_and_torque_by_charges(target: MagnetBody, source: MagnetBody, rtol: fl
     (True, True)
     """
     field = field or _field_function(source)
-    maps, boxes = surface_charge_patches(target)
+    maps, boxes, first_nodes = _body_frame_rule(*_rule_key(target))
     if not boxes:
         return np.zeros(3), np.zeros(3)
     rotation, center = target.rotation, target.center
     length = target.bounding_radius
-    global_maps = [_to_global(m, rotation, center) for m in maps]
 
     def integrand(points, charge):
         B = np.asarray(field(points), dtype=float).reshape(-1, 3)
         lever = points - center
-        return np.concatenate([charge[:, None] * B,
-                               charge[:, None] * np.cross(lever, B) / length], axis=1)
+        values = np.empty((len(points), 6))
+        values[:, :3] = charge[:, None] * B
+        scaled = charge / length
+        values[:, 3] = scaled * (lever[:, 1] * B[:, 2] - lever[:, 2] * B[:, 1])
+        values[:, 4] = scaled * (lever[:, 2] * B[:, 0] - lever[:, 0] * B[:, 2])
+        values[:, 5] = scaled * (lever[:, 0] * B[:, 1] - lever[:, 1] * B[:, 0])
+        return values
 
     def size(values):
-        return (np.linalg.norm(values[..., :3], axis=-1)
-                + np.linalg.norm(values[..., 3:], axis=-1))
+        return (np.sqrt((values[..., :3] ** 2).sum(axis=-1))
+                + np.sqrt((values[..., 3:] ** 2).sum(axis=-1)))
 
+    # the initial boxes' nodes are kept in the body frame: one rotation and one field call
+    local_points, weights, n_low = first_nodes
+    values = integrand(center + local_points @ rotation.T, weights)
+    first_pass = box_sums(values.reshape(len(boxes), -1, 6), n_low, size)
+    global_maps = [_to_global(m, rotation, center) for m in maps]
     total = adaptive_box_integral(global_maps, boxes, integrand, size, rtol=rtol / 4,
-                                  absolute_floor=_floor(target, source))
+                                  absolute_floor=_floor(target, source), first_pass=first_pass)
     return total[:3], total[3:] * length
+
+
+def _rule_key(body: MagnetBody):
+    """What the body-frame quadrature rule of ``body`` depends on, as a hashable tuple.
+
+    Polarization components below 1e-12 of the largest (rounding left by rotations) are
+    set to zero, so that no face with a vanishing charge is integrated.
+    """
+    J = body.polarization_body
+    J = np.where(np.abs(J) > 1e-12 * np.abs(J).max(), J, 0.0)
+    return (body.shape, float(body.diameter), float(body.height), float(body.inner_diameter),
+            tuple(float(v) for v in body.size), tuple(float(v) for v in J))
+
+
+@lru_cache(maxsize=256)
+def _body_frame_rule(shape, diameter, height, inner_diameter, size, polarization):
+    """Faces of a body at the origin and the Gauss nodes of their initial boxes (cached)."""
+    body = MagnetBody(shape, np.zeros(3), np.eye(3), polarization, diameter=diameter,
+                      height=height, inner_diameter=inner_diameter, size=size)
+    maps, boxes = surface_charge_patches(body)
+    if not boxes:
+        return maps, boxes, None
+    points, weights, n_low = box_nodes(maps, *_box_arrays(boxes))
+    points, weights = points.reshape(-1, 3), weights.ravel()
+    points.flags.writeable = False
+    weights.flags.writeable = False
+    return maps, boxes, (points, weights, n_low)
 
 
 def interaction_energy(target: MagnetBody, source: MagnetBody, rtol: float = 1e-6,
@@ -287,6 +326,7 @@ def _to_global(body_map, rotation, center):
 
 def _floor(target, source):
     """An absolute error floor: 1e-12 of the force scale J1 J2 A / mu0 of the pair."""
-    scale = (np.linalg.norm(target.polarization) * np.linalg.norm(source.polarization)
-             * min(target.bounding_radius, source.bounding_radius) ** 2 / mu_0)
-    return 1e-12 * scale
+    j_target = float(np.sqrt(target.polarization @ target.polarization))
+    j_source = float(np.sqrt(source.polarization @ source.polarization))
+    return 1e-12 * j_target * j_source * min(target.bounding_radius,
+                                             source.bounding_radius) ** 2 / mu_0

@@ -82,6 +82,7 @@ def adaptive_box_integral(
     max_rounds: int = 40,
     max_boxes: int = 200_000,
     absolute_floor: float = 0.0,
+    first_pass: tuple[np.ndarray, np.ndarray] | None = None,
 ) -> np.ndarray:
     """Integrate ``integrand`` over boxes mapped onto surfaces or volumes, adaptively.
 
@@ -106,6 +107,9 @@ def adaptive_box_integral(
         Safety limits; refinement stops when either is reached.
     absolute_floor : float
         Errors below this absolute size are accepted (for totals that vanish by symmetry).
+    first_pass : (ndarray (b, k), ndarray (b,)), optional
+        The higher-order values and error sizes of the initial boxes, if already known
+        (see :func:`box_nodes` and :func:`box_sums`); saves their evaluation.
 
     Returns
     -------
@@ -131,35 +135,14 @@ def adaptive_box_integral(
     >>> round(float(area[0]), 12)
     6.0
     """
-    dimension = len(boxes[0][1])
-    rule_low = tensor_gauss_rule(orders[0], dimension)
-    rule_high = tensor_gauss_rule(orders[1], dimension)
-    face = np.array([b[0] for b in boxes], dtype=int)
-    low = np.array([b[1] for b in boxes], dtype=float)
-    high = np.array([b[2] for b in boxes], dtype=float)
+    face, low, high = _box_arrays(boxes)
 
     def evaluate(face, low, high):
-        n_low, n_high = len(rule_low[1]), len(rule_high[1])
-        per_box = n_low + n_high
-        nodes = np.concatenate([rule_low[0], rule_high[0]])
-        weights = np.concatenate([rule_low[1], rule_high[1]])
-        span = high - low
-        params = low[:, None, :] + span[:, None, :] * nodes[None, :, :]
-        box_weight = np.prod(span, axis=1)[:, None] * weights[None, :]
-        points = np.empty(params.shape[:2] + (3,))
-        measure = np.empty(params.shape[:2])
-        for index in np.unique(face):
-            mine = face == index
-            p, m = maps[index](params[mine].reshape(-1, dimension))
-            points[mine] = p.reshape(-1, per_box, 3)
-            measure[mine] = m.reshape(-1, per_box)
-        values = integrand(points.reshape(-1, 3), (measure * box_weight).ravel())
-        values = values.reshape(len(face), per_box, -1)
-        q_low = values[:, :n_low].sum(axis=1)
-        q_high = values[:, n_low:].sum(axis=1)
-        return q_high, error_size(q_high - q_low)
+        points, weights, n_low = box_nodes(maps, face, low, high, orders)
+        values = integrand(points.reshape(-1, 3), weights.ravel())
+        return box_sums(values.reshape(len(face), -1, values.shape[-1]), n_low, error_size)
 
-    value, error = evaluate(face, low, high)
+    value, error = evaluate(face, low, high) if first_pass is None else first_pass
     for _ in range(max_rounds):
         total = value.sum(axis=0)
         bound = max(rtol * float(error_size(total)), absolute_floor)
@@ -179,6 +162,90 @@ def adaptive_box_integral(
         value = np.concatenate([value[keep], child_value])
         error = np.concatenate([error[keep], child_error])
     return value.sum(axis=0)
+
+
+@lru_cache(maxsize=None)
+def _paired_rule(orders: tuple[int, int], dimension: int):
+    """Nodes and weights of two Gauss orders side by side, and the count of the lower."""
+    rule_low, rule_high = (tensor_gauss_rule(order, dimension) for order in orders)
+    return (np.concatenate([rule_low[0], rule_high[0]]),
+            np.concatenate([rule_low[1], rule_high[1]]), len(rule_low[1]))
+
+
+def _box_arrays(boxes):
+    """Map indices, low and high corners of a list of (map index, low, high) boxes."""
+    face = np.array([b[0] for b in boxes], dtype=int)
+    low = np.array([b[1] for b in boxes], dtype=float)
+    high = np.array([b[2] for b in boxes], dtype=float)
+    return face, low, high
+
+
+def box_nodes(maps, face, low, high, orders: tuple[int, int] = DEFAULT_ORDERS):
+    """Points and weights of both Gauss orders on every box.
+
+    Parameters
+    ----------
+    maps : sequence of callables
+        As in :func:`adaptive_box_integral`.
+    face : array (b,) of int
+        Map index of each box.
+    low, high : arrays (b, d)
+        Box corners in parameter space.
+    orders : (int, int)
+        The two Gauss-Legendre orders per dimension.
+
+    Returns
+    -------
+    points : ndarray (b, n_low + n_high, 3)
+        Mapped nodes, the lower order's first [m].
+    weights : ndarray (b, n_low + n_high)
+        Gauss weight times box size times the map's measure.
+    n_low : int
+        Nodes per box of the lower order.
+
+    Notes
+    -----
+    Tensor Gauss-Legendre nodes scaled onto each box; see :func:`tensor_gauss_rule`.
+
+    References
+    ----------
+    Davis & Rabinowitz, Methods of Numerical Integration (1984), sec. 5.6.
+    """
+    nodes, weights, n_low = _paired_rule(tuple(orders), low.shape[1])
+    per_box = len(weights)
+    span = high - low
+    params = low[:, None, :] + span[:, None, :] * nodes[None, :, :]
+    box_weight = np.prod(span, axis=1)[:, None] * weights[None, :]
+    points = np.empty(params.shape[:2] + (3,))
+    measure = np.empty(params.shape[:2])
+    for index in np.unique(face):
+        mine = face == index
+        p, m = maps[index](params[mine].reshape(-1, low.shape[1]))
+        points[mine] = p.reshape(-1, per_box, 3)
+        measure[mine] = m.reshape(-1, per_box)
+    return points, measure * box_weight, n_low
+
+
+def box_sums(values, n_low: int, error_size):
+    """Higher-order value and error size of every box from the integrand at its nodes.
+
+    Parameters
+    ----------
+    values : array (b, n_low + n_high, k)
+        Weighted integrand at the nodes of :func:`box_nodes`.
+    n_low : int
+    error_size : callable
+        As in :func:`adaptive_box_integral`.
+
+    Returns
+    -------
+    q_high : ndarray (b, k)
+    error : ndarray (b,)
+        ``error_size(q_high - q_low)``.
+    """
+    q_low = values[:, :n_low].sum(axis=1)
+    q_high = values[:, n_low:].sum(axis=1)
+    return q_high, error_size(q_high - q_low)
 
 
 def _bisect(face, low, high):

@@ -113,8 +113,12 @@ def _attracting_placement(target: MagnetBody, source: MagnetBody) -> tuple[Magne
         turn = np.eye(3) if cosine > 0 else _rotation_about(_any_normal(p_source), np.pi)
     else:
         turn = _rotation_about(axis / sine, np.arctan2(sine, cosine))
+    centre = source.center + p_source * 10 * (source.bounding_radius + target.bounding_radius)
+    if source.shape == "ring":
+        # Over a ring's bore its field turns back and pushes; the pull is strongest over the annulus.
+        centre = centre + (source.diameter + source.inner_diameter) / 4 * source.rotation[:, 0]
     turned = replace(target, rotation=turn @ target.rotation, polarization=turn @ target.polarization,
-                     center=source.center + p_source * 10 * (source.bounding_radius + target.bounding_radius))
+                     center=centre)
     return turned, -p_source
 
 

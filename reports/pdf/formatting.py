@@ -24,15 +24,11 @@ _PREFIXED = {
 _GENERAL_PREFIXES = [(1e6, "M"), (1e3, "k"), (1.0, ""), (1e-3, "m"), (1e-6, "µ"), (1e-9, "n")]
 _GENERAL_UNITS = {"V", "A", "W", "J", "N", "s", "H", "Wb", "Ω", "Hz", "Pa", "F", "C"}
 
-# Key suffixes (after the last words of a snake_case name) and the unit they stand for.
-_SUFFIXES = [
-    ("_kG2_mm2", "kG²·mm²"), ("_m_per_s2", "m/s²"), ("_m_per_s", "m/s"), ("_rad_per_s", "rad/s"),
-    ("_A_per_m", "A/m"), ("_S_per_m", "S/m"), ("_N_per_m", "N/m"), ("_A_m2", "A·m²"), ("_N_m", "N·m"),
-    ("_kg_m2", "kg·m²"), ("_m2", "m²"), ("_m3", "m³"), ("_degC", "°C"), ("_rpm", "rpm"),
-    ("_percent", "%"), ("_ohm", "Ω"), ("_Wb", "Wb"), ("_Hz", "Hz"), ("_kg", "kg"), ("_V", "V"),
-    ("_A", "A"), ("_W", "W"), ("_J", "J"), ("_N", "N"), ("_T", "T"), ("_H", "H"), ("_F", "F"),
-    ("_m", "m"), ("_s", "s"), ("_C", "C"),
-]
+# Unit symbols that may end a snake_case key, joined by "_" (product) or "_per_" (quotient).
+_UNIT_TOKENS = {"V": "V", "A": "A", "W": "W", "J": "J", "N": "N", "T": "T", "m": "m", "s": "s", "kg": "kg",
+                "g": "g", "ohm": "Ω", "Hz": "Hz", "H": "H", "Wb": "Wb", "S": "S", "C": "C", "F": "F", "Pa": "Pa",
+                "m2": "m²", "m3": "m³", "mm2": "mm²", "kG2": "kG²", "s2": "s²", "rad": "rad", "degC": "°C",
+                "percent": "%", "rpm": "rpm", "K": "K"}
 
 
 def number(value: float, digits: int = SIGNIFICANT) -> str:
@@ -79,14 +75,31 @@ def quantity(value: float | None, unit: str, digits: int = SIGNIFICANT) -> str:
 
 
 def key_label(key: str) -> tuple[str, str]:
-    """A unit-suffixed key -> (plain words, unit symbol); ('', '') suffix gives unit ''."""
-    for suffix, unit in _SUFFIXES:
-        if key.endswith(suffix) and len(key) > len(suffix):
-            words = key[: -len(suffix)].replace("_", " ")
-            if unit == "C" and "temperature" in words:
-                unit = "°C"
-            return words, unit
-    return key.replace("_", " "), ""
+    """A unit-suffixed key -> (plain words, unit symbol), e.g. ``drag_N_s_per_m`` -> ('drag', 'N·s/m').
+
+    Unit tokens are read from the end of the key (``per`` makes a quotient) until a word that is
+    not a unit; a key without a unit gives ('words', '').
+    """
+    tokens = key.split("_")
+    cut = len(tokens)
+    while cut > 1 and (tokens[cut - 1] in _UNIT_TOKENS or tokens[cut - 1] == "per"):
+        cut -= 1
+    unit_tokens = tokens[cut:]
+    if not [t for t in unit_tokens if t != "per"]:
+        return key.replace("_", " "), ""
+    words = " ".join(tokens[:cut])
+    numerator, denominator, into = [], [], None
+    for token in unit_tokens:
+        if token == "per":
+            into = denominator
+            continue
+        (into if into is not None else numerator).append(_UNIT_TOKENS[token])
+    unit = "·".join(numerator) or "1"
+    if denominator:
+        unit += "/" + ("·".join(denominator) if len(denominator) == 1 else "(" + "·".join(denominator) + ")")
+    if unit == "C" and "temperature" in words:
+        unit = "°C"
+    return words, unit
 
 
 def value_text(key: str, value: Any) -> str:

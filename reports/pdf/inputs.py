@@ -34,7 +34,7 @@ class ReportInputs:
     signoffs: list[SignOff] = field(default_factory=list)   # rows for exactly this fingerprint
     status: ApprovalStatus | None = None
     created_epoch: int = 0
-    map_scenes: dict = field(default_factory=dict)           # {view: reports.field_map.MapScene}
+    map_scenes: dict = field(default_factory=dict)           # {view: [reports.field_map.MapScene, ...]}
 
     @property
     def findings(self) -> list:

@@ -100,14 +100,14 @@ def _key_text(contour) -> str:
     return f"{contour.threshold_id.replace('_', ' ')}: |B| = {quantity(contour.threshold_T, 'T')}"
 
 
-def _field_map_drawing(inputs: ReportInputs, view: str, width: float):
-    """The shared map drawing of ``reports.field_map`` for this view, if a scene was prepared."""
-    scene = (inputs.map_scenes or {}).get(view)
-    if scene is None:
-        return None
+def _field_map_drawings(inputs: ReportInputs, view: str, width: float) -> list:
+    """The shared map drawings of ``reports.field_map`` for this view (whole setup, close-up)."""
+    scenes = (inputs.map_scenes or {}).get(view) or []
+    if not scenes:
+        return []
     from reports.field_map import build_drawing
 
-    return build_drawing(scene, width_mm=width / mm - 22, max_height_mm=120.0)
+    return [build_drawing(scene, width_mm=width / mm - 22, max_height_mm=105.0) for scene in scenes]
 
 
 def maps_section(inputs: ReportInputs, s: Styles) -> list:
@@ -115,16 +115,15 @@ def maps_section(inputs: ReportInputs, s: Styles) -> list:
     drawn = False
     for view, caption, first_axis, second_axis in VIEWS:
         contours = [c for c in inputs.assessment.contours if c.view == view]
-        drawing = _field_map_drawing(inputs, view, 174 * mm)
-        if drawing is None and contours:
+        drawings = _field_map_drawings(inputs, view, 174 * mm)
+        if not drawings and contours:
             offset = contours[0].plane_offset_m
             where = f"at height z = {_metres(offset)}" if view == "plan" else f"in the plane y = {_metres(offset)}"
             story.append(s.para(f"{caption}, {where}; to scale, both axes in metres.", s.subheading))
-            drawing = contour_drawing(contours, s.fonts.regular, axis_names=(first_axis, second_axis))
-        if drawing is None:
-            continue
-        story.append(drawing)
-        drawn = True
+            drawings = [d for d in [contour_drawing(contours, s.fonts.regular, axis_names=(first_axis, second_axis))]
+                        if d is not None]
+        story += drawings
+        drawn = drawn or bool(drawings)
     if not drawn:
         story.append(s.para("No contour lines were computed for this setup, so no map is drawn."))
     else:

@@ -56,8 +56,42 @@ def _magnet_shape(shape_type, magnet, view: str):
     return _round_part(shape_type, "magnet", magnet.id, centre, magnet.diameter / 2, magnet.height, axis, view)
 
 
+def _clip_rectangle(shape, low, high):
+    """The rectangle cut to the box [low, high], or None if it lies outside it."""
+    x0, y0 = max(shape.corner_low[0], low[0]), max(shape.corner_low[1], low[1])
+    x1, y1 = min(shape.corner_high[0], high[0]), min(shape.corner_high[1], high[1])
+    if x0 >= x1 or y0 >= y1:
+        return None
+    return type(shape)(kind=shape.kind, form="rectangle", label=shape.label, corner_low=(x0, y0), corner_high=(x1, y1))
+
+
+def _close_up(scene, contours):
+    """The same scene cut to the keep-out lines' surroundings, when they are small on the whole map."""
+    points = [p for c in contours for line in c.lines for p in line]
+    xs, ys = [p[0] for p in points], [p[1] for p in points]
+    span = max(max(xs) - min(xs), max(ys) - min(ys), 0.02)
+    low, high = (min(xs) - 0.15 * span, min(ys) - 0.15 * span), (max(xs) + 0.15 * span, max(ys) + 0.15 * span)
+    corners = [c for shape in scene.shapes if shape.form == "rectangle" for c in (shape.corner_low, shape.corner_high)]
+    corners += [(x, y) for x, y in zip(xs, ys)]
+    whole_span = max(max(c[0] for c in corners) - min(c[0] for c in corners),
+                     max(c[1] for c in corners) - min(c[1] for c in corners))
+    if whole_span < 2.5 * span:
+        return None
+    kept = []
+    for shape in scene.shapes:
+        if shape.form == "circle":
+            inside = low[0] <= shape.centre[0] <= high[0] and low[1] <= shape.centre[1] <= high[1]
+            kept += [shape] if inside else []
+        elif shape.form == "rectangle":
+            clipped = _clip_rectangle(shape, low, high)
+            kept += [clipped] if clipped is not None else []
+    return type(scene)(view=scene.view, title=scene.title.replace(",", ", close-up,", 1), shapes=tuple(kept),
+                       lines=scene.lines)
+
+
 def scenes_from_setup(setup, assessment) -> dict:
-    """{view: MapScene} for the views that have contour lines, or {} without ``reports.field_map``."""
+    """{view: [MapScene, ...]} for the views that have contour lines: the whole setup, then a
+    close-up of the keep-out lines when they are small on it; {} without ``reports.field_map``."""
     try:
         from reports.field_map import KeepOutLine, MapScene, Shape
     except ImportError:
@@ -89,5 +123,7 @@ def scenes_from_setup(setup, assessment) -> dict:
         offset = contours[0].plane_offset_m
         where = f"height z = {quantity(offset, 'm')}" if view == "plan" else f"plane y = {quantity(offset, 'm')}"
         title = ("Plan, seen from above" if view == "plan" else "Elevation, seen from the front") + f", {where}"
-        scenes[view] = MapScene(view=view, title=title.replace("µ", "u"), shapes=tuple(shapes), lines=tuple(lines))
+        whole = MapScene(view=view, title=title.replace("µ", "u"), shapes=tuple(shapes), lines=tuple(lines))
+        close = _close_up(whole, contours)
+        scenes[view] = [whole] + ([close] if close is not None else [])
     return scenes

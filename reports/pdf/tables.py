@@ -117,13 +117,10 @@ def induction_tables(inputs: ReportInputs, s: Styles) -> list:
              s.para("Predicted values for each demonstration, to compare with the meters and loads connected.",
                     s.small)]
     for activity in activities:
-        rows = []
-        for key, value in activity.values.items():
-            words, unit = key_label(str(key))
-            rows.append([words, value_text(str(key), value), unit or "-"])
+        rows = [[key_label(str(key))[0], value_text(str(key), value)] for key, value in activity.values.items()]
         title = f"{activity.activity_id} ({activity.kind.replace('_', ' ')})"
         story.append(s.para(title, s.body))
-        story.append(s.table(["Quantity", "Predicted", "Unit"], rows, [80 * mm, 50 * mm, 20 * mm]))
+        story.append(s.table(["Quantity", "Predicted value"], rows, [80 * mm, 70 * mm]))
         story += [s.para(f"Note: {warning}", s.small) for warning in activity.warnings]
     return story
 

@@ -1,7 +1,7 @@
 """`benchplan report`, `sign` and `status` end to end: files written, states, exit codes.
 
-Until ``planner.assess`` exists, a stand-in returning an invented assessment is installed so
-the commands can be exercised; once it exists the real assessment is used.
+The real ``planner.assess`` is used (each distinct setup assessed once per test, to keep the
+file fast); where it is absent, a stand-in returning an invented assessment is installed.
 """
 from __future__ import annotations
 
@@ -45,7 +45,19 @@ def _real_assess_available() -> bool:
 def assess_function(monkeypatch):
     """The assess function the commands will call (the real one when it exists)."""
     if _real_assess_available():
-        return importlib.import_module("planner.assess").assess
+        module = importlib.import_module("planner.assess")
+        real, cache = module.assess, {}
+
+        def remembered(setup):      # the real assessment, computed once per distinct setup
+            from reports.fingerprint import canonical_json, canonical_setup
+
+            key = canonical_json(canonical_setup(setup))
+            if key not in cache:
+                cache[key] = real(setup)
+            return cache[key]
+
+        monkeypatch.setattr(module, "assess", remembered)
+        return remembered
     from tests.reports.test_pdf import sample_assessment
 
     def stand_in(setup):

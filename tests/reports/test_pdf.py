@@ -208,3 +208,18 @@ zones:
     assert "disc-a" in text and "desk-b" in text
     # the keep-out label carries the Assessment's largest distance for that threshold (0.41 m)
     assert "keep-out up to 410 mm" in text
+
+
+@pytest.mark.parametrize("key, words, unit", [
+    # the Assessment's key convention: snake_case words, then SI unit symbols (`per` = divide)
+    ("peak_emf_V", "peak emf", "V"),
+    ("drag_constant_N_s_per_m", "drag constant", "N·s/m"),   # F = c v, so c is in N/(m/s) = N·s/m
+    ("terminal_speed_m_per_s", "terminal speed", "m/s"),
+    ("moment_A_m2", "moment", "A·m²"),
+    ("conductivity_S_per_m", "conductivity", "S/m"),
+    ("peak_to_full_scale", "peak to full scale", ""),
+])
+def test_unit_suffixes_of_assessment_keys_are_read_as_units(key, words, unit):
+    from reports.pdf.formatting import key_label
+
+    assert key_label(key) == (words, unit)

@@ -89,11 +89,44 @@ def distance_to_body(body, points):
     return np.hypot(beside, beyond_end)
 
 
-def _dipole_field(moment, centre, points):
-    offset = points - centre
-    distance = np.linalg.norm(offset, axis=1)[:, None]
-    unit = offset / distance
-    return K * (3 * unit * (unit @ moment)[:, None] - moment) / distance**3
+def dipole_assignment(bodies, points, allowed_error):
+    """Which bodies may be taken as point dipoles at each point, and what that costs.
+
+    Returns ``far`` (n, b) bool, the summed field error bound (n,) [T] and the summed
+    gradient error bound (n,) [T/m] of the dipole stand-ins (Taylor remainders
+    12 k m s^2 / (d - a)^5 and 60 k m s^2 / (d - a)^6). Each body is a dipole where its
+    field error stays below ``allowed_error / len(bodies)``.
+    """
+    moments, reach, square = body_constants(bodies)
+    centres = np.array([b.center for b in bodies])
+    distance = np.linalg.norm(points[:, None, :] - centres[None], axis=2)
+    shift = np.where(square == 0, 0.0, reach)
+    with np.errstate(invalid="ignore", divide="ignore", over="ignore"):
+        gap = np.where(distance > reach * (1 + 1e-9), distance - shift, np.nan)
+        remainder = 12 * K * moments * square / gap**5
+        far = remainder <= allowed_error / max(len(bodies), 1)
+        error = np.sum(np.where(far, remainder, 0.0), axis=1)
+        gradient_error = np.sum(np.where(far, 60 * K * moments * square / np.where(far, gap, 1.0) ** 6, 0.0), axis=1)
+    return far, error, gradient_error
+
+
+def model_field(bodies, points, far):
+    """B (n, 3) [T]: point dipoles for the (point, body) pairs in ``far``, exact otherwise."""
+    total = np.zeros_like(points)
+    if far.any():
+        moments = np.array([b.moment for b in bodies])
+        offset = points[:, None, :] - np.array([b.center for b in bodies])[None]
+        distance = np.linalg.norm(offset, axis=2)
+        with np.errstate(invalid="ignore", divide="ignore"):
+            unit = offset / distance[..., None]
+            along = np.einsum("nbk,bk->nb", unit, moments)
+            dipoles = K * (3 * unit * along[..., None] - moments[None]) / distance[..., None] ** 3
+        total += np.sum(np.where(far[..., None], dipoles, 0.0), axis=1)
+    for i, body in enumerate(bodies):
+        near = ~far[:, i]
+        if near.any():
+            total[near] += exact_body_field(body, points[near])
+    return total
 
 
 def field_with_error(bodies, points, allowed_error):
@@ -115,22 +148,8 @@ def field_with_error(bodies, points, allowed_error):
         values (points on a body's edge) come back as +inf.
     """
     points = np.asarray(points, dtype=float).reshape(-1, 3)
-    moments, reach, square = body_constants(bodies)
-    total = np.zeros_like(points)
-    error = np.zeros(len(points))
-    share = allowed_error / max(len(bodies), 1)
-    for body, m, a, s2 in zip(bodies, moments, reach, square):
-        distance = np.linalg.norm(points - body.center, axis=1)
-        outside = distance > a * (1 + 1e-9)
-        gap = np.where(outside, distance - (0.0 if s2 == 0 else a), 1.0)
-        remainder = np.where(outside, 12 * K * m * s2 / gap**5, np.inf)
-        far = outside & (remainder <= share)
-        if far.any():
-            total[far] += _dipole_field(body.moment, body.center, points[far])
-            error[far] += remainder[far]
-        if (~far).any():
-            total[~far] += exact_body_field(body, points[~far])
-    magnitude = np.linalg.norm(total, axis=1)
+    far, error, _ = dipole_assignment(bodies, points, allowed_error)
+    magnitude = np.linalg.norm(model_field(bodies, points, far), axis=1)
     magnitude[~np.isfinite(magnitude)] = np.inf
     return magnitude, error
 

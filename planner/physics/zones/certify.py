@@ -27,9 +27,15 @@ from math import factorial, pi
 
 import numpy as np
 
-from planner.physics.zones.bounds import K, _ball_geometry, _dipole_field, body_constants, exact_body_field
+from planner.physics.zones.bounds import K, _ball_geometry, dipole_assignment, exact_body_field
 
 _CURVED = {0: 0.0, 1: 2.0, 2: pi / 2, 3: 4.0 / 3.0}
+
+
+def _columns(geometry, chosen):
+    """The geometry tuple of ``_ball_geometry`` restricted to the chosen bodies."""
+    centre_distance, solid_distance, *constants = geometry
+    return (centre_distance[:, chosen], solid_distance[:, chosen], *[c[chosen] for c in constants])
 
 
 def derivative_bound(geometry, spread, order):
@@ -48,50 +54,58 @@ def derivative_bound(geometry, spread, order):
     return np.sum(np.nan_to_num(np.minimum(far, near), nan=np.inf), axis=1)
 
 
-def _assignment(bodies, points, allowed_error):
-    """Which bodies may be taken as dipoles at each point, and the error that costs [T], [T/m]."""
-    moments, reach, square = body_constants(bodies)
-    far = np.zeros((len(points), len(bodies)), bool)
-    error = np.zeros(len(points))
-    gradient_error = np.zeros(len(points))
-    share = allowed_error / max(len(bodies), 1)
-    for i, (body, m, a, s2) in enumerate(zip(bodies, moments, reach, square)):
-        distance = np.linalg.norm(points - body.center, axis=1)
-        gap = np.where(distance > 1.01 * a, distance - (0.0 if s2 == 0 else a), np.nan)
-        with np.errstate(invalid="ignore"):
-            remainder = 12 * K * m * s2 / gap**5
-            far[:, i] = remainder <= share
-        error += np.where(far[:, i], remainder, 0.0)
-        gradient_error += np.where(far[:, i], 60 * K * m * s2 / np.where(far[:, i], gap, 1.0) ** 6, 0.0)
-    return far, error, gradient_error
+def _dipole_field_and_jacobian(bodies, points, far):
+    """Summed point-dipole field (n, 3) and Jacobian (n, 3, 3) [j, l] = dB_l/dx_j of the far pairs.
 
-
-def _model(bodies, points, far):
-    total = np.zeros_like(points)
-    for i, body in enumerate(bodies):
-        if far[:, i].any():
-            total[far[:, i]] += _dipole_field(body.moment, body.center, points[far[:, i]])
-        if (~far[:, i]).any():
-            total[~far[:, i]] += exact_body_field(body, points[~far[:, i]])
-    return total
+    dB_l/dx_j = 3 k / r^4 [(m.u)(delta_jl - 5 u_j u_l) + m_j u_l + m_l u_j] (derivative of
+    Jackson eq. 5.56).
+    """
+    field = np.zeros((len(points), 3))
+    jacobian = np.zeros((len(points), 3, 3))
+    if not far.any():
+        return field, jacobian
+    moments = np.array([b.moment for b in bodies])
+    offset = points[:, None, :] - np.array([b.center for b in bodies])[None]
+    distance = np.sqrt(np.sum(offset**2, axis=2))
+    distance = np.where(far, distance, 1.0)
+    unit = offset / distance[..., None]
+    along = np.einsum("nbk,bk->nb", unit, moments)
+    weight = np.where(far, K / distance**3, 0.0)
+    field = np.einsum("nb,nbl->nl", weight, 3 * unit * along[..., None] - moments[None])
+    scaled = 3 * weight / distance
+    along_scaled = scaled * along
+    outer = np.matmul(np.swapaxes(along_scaled[..., None] * unit, 1, 2), unit)  # sum_b c (m.u) u_j u_l
+    mixed = np.matmul(np.swapaxes(scaled[..., None] * moments[None], 1, 2), unit)  # sum_b c m_j u_l
+    jacobian = (np.sum(along_scaled, axis=1)[:, None, None] * np.eye(3) - 5 * outer
+                + mixed + np.swapaxes(mixed, 1, 2))
+    return field, jacobian
 
 
 def field_and_gradient(bodies, points, allowed_error):
-    """Model field B (n, 3) [T], its error bound (n,) [T], grad |B|^2 (n, 3) [T^2/m] and its error bound."""
-    far, error, model_gradient_error = _assignment(bodies, points, allowed_error)
+    """Model field |B| (n,) [T], its error bound (n,) [T], grad |B|^2 (n, 3) [T^2/m] and its error bound.
+
+    Far pairs: analytic dipole field and Jacobian. Near pairs: exact field and a
+    central-difference Jacobian with step 1e-3 of the distance to the nearest body.
+    """
+    far, error, jacobian_error = dipole_assignment(bodies, points, allowed_error)
     geometry = _ball_geometry(bodies, points)
+    field, jacobian = _dipole_field_and_jacobian(bodies, points, far)
     step = 1e-3 * np.maximum(np.min(np.maximum(geometry[1], geometry[0] - geometry[3]), axis=1), 1e-9)
-    field = _model(bodies, points, far)
-    offsets = np.concatenate([step[:, None] * e for e in np.vstack([np.eye(3), -np.eye(3)])])
-    shifted = _model(bodies, np.tile(points, (6, 1)) + offsets, np.tile(far, (6, 1))).reshape(6, -1, 3)
-    jacobian = (shifted[:3] - shifted[3:]) / (2 * step[None, :, None])  # [j, n, l] = d B_l / d x_j
-    third = derivative_bound(geometry, step, 3)
-    scale = np.max(np.abs(shifted), axis=(0, 2))
-    jacobian_error = (np.sqrt(3) * step**2 / 6 * third + 1e-14 * scale / step
-                      + model_gradient_error)
-    size = np.linalg.norm(field, axis=1)
-    gradient = 2 * np.einsum("jnl,nl->nj", jacobian, field)
-    jacobian_norm = np.sqrt(np.sum(jacobian**2, axis=(0, 2)))
+    basis = np.vstack([np.eye(3), -np.eye(3)])
+    for i, body in enumerate(bodies):
+        near = np.flatnonzero(~far[:, i])
+        if not len(near):
+            continue
+        h = step[near]
+        stacked = np.concatenate([points[near]] + [points[near] + h[:, None] * e for e in basis])
+        values = exact_body_field(body, stacked).reshape(7, len(near), 3)
+        field[near] += values[0]
+        jacobian[near] += np.transpose((values[1:4] - values[4:7]) / (2 * h[None, :, None]), (1, 0, 2))
+        jacobian_error[near] += 1e-14 * np.max(np.abs(values), axis=(0, 2)) / h  # rounding
+    jacobian_error += np.sqrt(3) * step**2 / 6 * derivative_bound(geometry, step, 3)  # truncation
+    size = np.sqrt(np.sum(field**2, axis=1))
+    gradient = 2 * np.einsum("njl,nl->nj", jacobian, field)
+    jacobian_norm = np.sqrt(np.sum(jacobian**2, axis=(1, 2)))
     gradient_error = 2 * (jacobian_error * (size + error) + jacobian_norm * error)
     bad = ~np.isfinite(size) | ~np.isfinite(gradient_error) | ~np.all(np.isfinite(gradient), axis=1)
     size[bad] = np.inf
@@ -105,6 +119,8 @@ def certified_depth(bodies, points, axes, radii, half_angles, threshold, allowed
     ``half_angles`` [rad]. Returns 0 where nothing can be proven (the walk stops there).
     """
     size, error, gradient, gradient_error, geometry = field_and_gradient(bodies, points, allowed_error)
+    high = np.maximum(np.min(np.maximum(geometry[1], geometry[0] - geometry[3]), axis=1), 1e-9)
+    high = np.minimum(high, radii)
     along = np.abs(np.sum(gradient * axes, axis=1))
     across = np.linalg.norm(gradient - np.sum(gradient * axes, axis=1)[:, None] * axes, axis=1)
     along, across = along + gradient_error, across + gradient_error
@@ -112,12 +128,19 @@ def certified_depth(bodies, points, axes, radii, half_angles, threshold, allowed
     across_reach = radii * np.sin(half_angles)
     bulge = radii * (1 - np.cos(half_angles))
     limit = threshold**2 * (1 - 1e-9)
+    # Bodies far from every ball of the search: their bounds, which grow with the ball, are
+    # taken once at the largest ball (still bounds for smaller ones, and nearly as tight).
+    widest = np.hypot(high + bulge, across_reach)
+    close = np.any(geometry[0] - geometry[3] < 10 * widest[:, None], axis=0)
+    fixed_first = derivative_bound(_columns(geometry, ~close), widest, 1)
+    fixed_second = derivative_bound(_columns(geometry, ~close), widest, 2)
+    geometry = _columns(geometry, close)
 
     def holds(depth):
         shift = depth + bulge
         spread = np.hypot(shift, across_reach)
-        first = derivative_bound(geometry, spread, 1)
-        second = derivative_bound(geometry, spread, 2)
+        first = fixed_first + derivative_bound(geometry, spread, 1)
+        second = fixed_second + derivative_bound(geometry, spread, 2)
         with np.errstate(invalid="ignore", over="ignore"):
             largest = upper + first * spread
             curvature = 2 * (first**2 + largest * second)
@@ -126,8 +149,6 @@ def certified_depth(bodies, points, axes, radii, half_angles, threshold, allowed
 
     low = np.zeros(len(points))
     ok = holds(low)
-    high = np.maximum(np.min(np.maximum(geometry[1], geometry[0] - geometry[3]), axis=1), 1e-9)
-    high = np.minimum(high, radii)
     for _ in range(iterations):
         middle = 0.5 * (low + high)
         fits = holds(middle)

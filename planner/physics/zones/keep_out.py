@@ -5,8 +5,9 @@ Every figure here is meant for a safety line, so each one errs outward and says 
 * the field is evaluated exactly (``planner.physics.fields``) near each magnet and as a
   point dipole plus a proven error bound far from it; the *upper* value |B| + error is used
   whenever a point must be shown to lie below a threshold;
-* a region is declared below a threshold only when a proven gradient bound says no point of
-  it can reach the threshold (the bounds are in :mod:`planner.physics.zones.bounds`);
+* a region is declared below a threshold only when proven bounds on the field and its
+  derivatives say no point of it can reach the threshold (:mod:`planner.physics.zones.bounds`,
+  :mod:`planner.physics.zones.certify`);
 * what cannot be proven below is counted as reaching the threshold.
 
 All inputs and outputs are SI floats and numpy arrays: tesla, metres.
@@ -15,8 +16,8 @@ References
 ----------
 Derivations of the bounds: :mod:`planner.physics.zones.bounds`. Dipole field and multipole
 expansion: J. D. Jackson, *Classical Electrodynamics*, 3rd ed., Wiley (1999), sections 4.1
-and 5.6. Maximum principle for subharmonic functions (|B| of a source-free field is
-subharmonic): O. D. Kellogg, *Foundations of Potential Theory*, Springer (1929), ch. X.
+and 5.6. Edge singularities of uniformly magnetized bodies: R. Engel-Herbert and
+T. Hesjedal, J. Appl. Phys. 97, 074504 (2005).
 """
 from __future__ import annotations
 
@@ -31,8 +32,8 @@ from planner.physics.zones.sampling import (
 
 __all__ = ["keep_out_radius", "keep_out_radii", "farthest_start_radius"]
 
-RELATIVE_TARGET = 0.03  # refine until the proven radius is within 3 % ...
-ABSOLUTE_TARGET = 3e-3  # ... or 3 mm of the farthest point found at the threshold [m]
+RELATIVE_TARGET = 0.045  # refine until the proven radius is within 4.5 % ...
+ABSOLUTE_TARGET = 4.5e-3  # ... or 4.5 mm of the farthest point found at the threshold [m]
 PROBED_CONES = 48
 START_LEVEL = 2  # 320 cones of about 9 degrees to begin with
 MAX_LEVEL = 7
@@ -120,7 +121,7 @@ def _march(bodies, index, axes, half_angles, radii, threshold, allowed_error):
         r = radii[idx]
         points = centre + r[:, None] * axes[idx]
         lateral = 2 * r * np.sin(half_angles[idx] / 2)
-        smallest = np.maximum(2e-3 * r, 2e-5)
+        smallest = np.maximum(4e-3 * r, 5e-5)
         step = np.full(len(idx), -np.inf)
         into_other = np.full(len(idx), -np.inf)
         if len(others):
@@ -233,7 +234,15 @@ def _refine(bodies, index, threshold, start):
     allowed_error = 2e-3 * threshold
     triangles = icosahedron_triangles(START_LEVEL)
     starts = np.full(len(triangles), start)
-    best_hit, settled = 0.0, 0.0
+    # Every shape but the sphere has charged-face edges on its bounding sphere, where the
+    # field grows without bound: the exact distance is at least the bounding radius.
+    best_hit = 0.0 if bodies[index].shape == "sphere" else bodies[index].bounding_radius
+    # The proven start itself may already be close enough to a point found at the threshold.
+    directions = fibonacci_directions(PROBED_CONES * 4)
+    best_hit = max(best_hit, _probe(bodies, index, directions, np.full(len(directions), start), threshold))
+    if _close_enough(start, best_hit):
+        return start
+    settled = 0.0
     for level in range(START_LEVEL, MAX_LEVEL + 1):
         axes, half_angles = cone_of_triangle(triangles)
         proven, hit = _march(bodies, index, axes, half_angles, starts, threshold, allowed_error)
@@ -285,7 +294,7 @@ def keep_out_radius(bodies: list[MagnetBody], index: int, threshold: float) -> f
     -------
     float
         Distance [m] from the centre of body ``index``. Never below the exact value.
-        Refinement stops once it is within 3 % or 3 mm of a point found at the threshold
+        Refinement stops once it is within 4.5 % or 4.5 mm of a point found at the threshold
         (so at least that close to the exact value), or when the cone budget is spent, in
         which case the figure is still proven but looser; tests check 5 % or 5 mm.
 
@@ -308,8 +317,10 @@ def keep_out_radius(bodies: list[MagnetBody], index: int, threshold: float) -> f
     term is the across-axis gradient, nearly zero where the reach is largest, so the cone
     width enters almost only quadratically. Slabs wholly in another magnet's cell are
     skipped. The walk stops where s becomes tiny: that radius is proven for the cone.
-    (4) Cones whose proven radius is not within 2 % or 1 mm of the
-    farthest point actually found at the threshold are split into four and walked on.
+    (4) Cones whose proven radius is not within 4.5 % or 4.5 mm of the farthest point
+    actually found at the threshold (a lower bound of the exact value; for shapes other
+    than the sphere at least the bounding radius, see below) are split into four and walked
+    on from their parent's proven radius, until all are or a budget of cones is spent.
     (5) The result is the largest proven radius, at least the body's own bounding radius,
     then checked by dense sampling just outside it (grown if any sample reaches the
     threshold). Steps (3)-(4) are what make the figure conservative; (5) guards the code.

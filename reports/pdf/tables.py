@@ -34,6 +34,13 @@ def threshold_source(assessment, threshold_id: str) -> str:
     return text
 
 
+def _threshold_name(threshold_id: str) -> str:
+    """`implant_keep_out` -> 'implant keep out'; `desk:instrument_limit` -> "the zone's own instrument limit"."""
+    if ":" in threshold_id:
+        return f"the zone's own {threshold_id.split(':', 1)[1].replace('_', ' ')} (from the setup)"
+    return threshold_id.replace("_", " ")
+
+
 def magnet_table(inputs: ReportInputs, s: Styles) -> list:
     magnets = inputs.assessment.magnets
     if not magnets:
@@ -89,7 +96,7 @@ def zone_table(inputs: ReportInputs, s: Styles) -> list:
     reach = inputs.assessment.zone_reach
     if not reach:
         return []
-    rows = [[z.zone_id, z.zone_kind.replace("_", " "), z.threshold_id.replace("_", " "),
+    rows = [[z.zone_id, z.zone_kind.replace("_", " "), _threshold_name(z.threshold_id),
              quantity(z.threshold_T, "T"), quantity(z.max_field_T, "T"), "yes" if z.reached else "no",
              "yes" if z.people else "no", ", ".join(c.replace("_", " ") for c in z.contains) or "-"] for z in reach]
     return [s.para("Zones against the thresholds", s.subheading),

@@ -223,3 +223,57 @@ def test_unit_suffixes_of_assessment_keys_are_read_as_units(key, words, unit):
     from reports.pdf.formatting import key_label
 
     assert key_label(key) == (words, unit)
+
+
+def _check_report_of(setup_path):
+    from planner.assess import assess
+    from planner.setup import load_setup
+    from reports.fingerprint import fingerprint
+    from reports.pdf import inputs_from_setup
+
+    setup = load_setup(setup_path)
+    assessment = assess(setup)
+    full = fingerprint(setup)
+    data = render_pdf(inputs_from_setup(setup, assessment, full, created_epoch=EPOCH))
+    pages = pdf_text(data)
+    text = _flat(" ".join(pages))
+    assert full in pages[0] and all(full[:12] in page for page in pages)
+    for finding in assessment.findings:
+        assert _flat(finding.title) in text
+    used = {k.threshold_id for k in assessment.keep_out} | {z.threshold_id for z in assessment.zone_reach}
+    for threshold_id in used:
+        threshold = assessment.threshold(threshold_id)
+        if threshold is None:     # a zone's own limit written in the setup (`zone:instrument_limit`)
+            assert ":" in threshold_id and "own instrument limit (from the setup)" in text
+            continue
+        assert _flat(threshold.source) in text
+    return data
+
+
+def test_report_of_a_real_assessment_of_a_small_setup():
+    pytest.importorskip("planner.assess")
+    from pathlib import Path
+    import tempfile
+
+    text = """
+title: Small real bench
+site_rules: {review_interval: 6 months}
+magnets:
+  - {id: disc, shape: cylinder, diameter: 20 mm, height: 10 mm, grade: N42,
+     at: [0 mm, 0 mm, 5 mm], magnetization: +z}
+zones:
+  - {id: desk, kind: desk, from: [0.3 m, -0.2 m, 0 m], to: [0.6 m, 0.2 m, 0.3 m], contains: [computers]}
+"""
+    with tempfile.TemporaryDirectory() as folder:
+        path = Path(folder) / "small.yaml"
+        path.write_text(text, encoding="utf-8")
+        _check_report_of(path)
+
+
+@pytest.mark.slow
+@pytest.mark.parametrize("name", ["open-day-induction-bench", "magnet-store-beside-office", "teaching-lab-stations"])
+def test_report_of_every_example_setup(name):
+    pytest.importorskip("planner.assess")
+    from tests.conftest import SETUPS
+
+    _check_report_of(SETUPS / f"{name}.yaml")

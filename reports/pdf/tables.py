@@ -80,16 +80,26 @@ def pair_table(inputs: ReportInputs, s: Styles) -> list:
 
 
 def keep_out_table(inputs: ReportInputs, s: Styles) -> list:
+    """Keep-out distances, one row per magnet and threshold; each source printed once, numbered."""
     assessment = inputs.assessment
     if not assessment.keep_out:
         return []
-    rows = [[k.magnet_id, k.threshold_id.replace("_", " "), quantity(k.threshold_T, "T"), quantity(k.distance_m, "m"),
-             threshold_source(assessment, k.threshold_id) or k.source] for k in assessment.keep_out]
-    return [s.para("Keep-out distances", s.subheading),
-            s.para("Largest distance from each magnet's centre at which the field still reaches the "
-                   "threshold. The distances are never shorter than the true ones.", s.small),
-            s.table(["Magnet", "Threshold", "Field", "Keep-out distance", "Source of the threshold"], rows,
-                    [28 * mm, 34 * mm, 18 * mm, 22 * mm, 72 * mm])]
+    numbers: dict[str, int] = {}
+    for k in assessment.keep_out:
+        numbers.setdefault(k.threshold_id, len(numbers) + 1)
+    rows = [[k.magnet_id, _threshold_name(k.threshold_id), quantity(k.threshold_T, "T"), quantity(k.distance_m, "m"),
+             f"[{numbers[k.threshold_id]}]"] for k in assessment.keep_out]
+    sources = {}
+    for k in assessment.keep_out:
+        sources.setdefault(k.threshold_id, threshold_source(assessment, k.threshold_id) or k.source)
+    story = [s.para("Keep-out distances", s.subheading),
+             s.para("Largest distance from each magnet's centre at which the field still reaches the "
+                    "threshold. The distances are never shorter than the true ones.", s.small),
+             s.table(["Magnet", "Threshold", "Field", "Keep-out distance", "Source"], rows,
+                     [40 * mm, 60 * mm, 24 * mm, 30 * mm, 20 * mm])]
+    story.append(s.para("Sources of these thresholds", s.body))
+    story += [s.para(f"[{numbers[tid]}] {_threshold_name(tid)}: {text}", s.small) for tid, text in sources.items()]
+    return story
 
 
 def zone_table(inputs: ReportInputs, s: Styles) -> list:

@@ -5,9 +5,11 @@ Georgian, Hebrew and many symbols), embedded as a subset so names render as text
 It is looked for, in this order:
 
 1. the folder in ``$BENCHPLAN_FONT_DIR`` (holding ``DejaVuSans.ttf`` and ``DejaVuSans-Bold.ttf``);
-2. the copy that the matplotlib wheel ships in ``matplotlib/mpl-data/fonts/ttf`` (found without
+2. the copy shipped with benchplan in ``reports/fonts`` (DejaVu fonts licence in ``LICENSE_DEJAVU``
+   there), so a plain ``pip install`` needs nothing else;
+3. the copy that the matplotlib wheel ships in ``matplotlib/mpl-data/fonts/ttf`` (found without
    importing matplotlib), so no system package is needed;
-3. Debian's ``fonts-dejavu-core`` in ``/usr/share/fonts/truetype/dejavu``.
+4. Debian's ``fonts-dejavu-core`` in ``/usr/share/fonts/truetype/dejavu``.
 
 If none is found the report falls back to the PDF standard Helvetica and says so on its first
 page: letters outside Latin-1 then cannot be shown.
@@ -61,6 +63,7 @@ def font_directories() -> list[Path]:
     folders = []
     if os.environ.get(FONT_DIRECTORY_VARIABLE):
         folders.append(Path(os.environ[FONT_DIRECTORY_VARIABLE]))
+    folders.append(Path(__file__).resolve().parents[1] / "fonts")
     matplotlib_folder = _matplotlib_font_directory()
     if matplotlib_folder is not None:
         folders.append(matplotlib_folder)

@@ -156,10 +156,10 @@ def test_older_limit_noted_and_edition_named():
 
 
 def test_lead_shipping_field_within_dipole_bounds():
-    assess = pytest.importorskip("planner.assess").assess
-    from planner.setup import load_setup
-    setup = load_setup("setups/magnet-store-beside-office.yaml")
-    package_figures = next(p for p in assess(setup).shipping if p.activity_id == "send-spheres")
+    from tests.conftest import assessed_example
+
+    _, assessment = assessed_example("magnet-store-beside-office")
+    package_figures = next(p for p in assessment.shipping if p.activity_id == "send-spheres")
     # 200 spheres of 5 mm N42 in a 20 x 15 x 10 cm box: the centre is 2.1 m to 2.1 m + half the diagonal
     # (0.135 m) from the measuring point; the field lies between the dipole sums at those distances
     # (grade N42 upper Br 1.32 T; allow 5 % for the remanence spread).

@@ -225,14 +225,17 @@ def test_unit_suffixes_of_assessment_keys_are_read_as_units(key, words, unit):
     assert key_label(key) == (words, unit)
 
 
-def _check_report_of(setup_path):
+def _check_report_of(setup_path, assessed=None):
     from planner.assess import assess
     from planner.setup import load_setup
     from reports.fingerprint import fingerprint
     from reports.pdf import inputs_from_setup
 
-    setup = load_setup(setup_path)
-    assessment = assess(setup)
+    if assessed is None:
+        setup = load_setup(setup_path)
+        assessment = assess(setup)
+    else:
+        setup, assessment = assessed
     full = fingerprint(setup)
     data = render_pdf(inputs_from_setup(setup, assessment, full, created_epoch=EPOCH))
     pages = pdf_text(data)
@@ -274,6 +277,6 @@ zones:
 @pytest.mark.parametrize("name", ["open-day-induction-bench", "magnet-store-beside-office", "teaching-lab-stations"])
 def test_report_of_every_example_setup(name):
     pytest.importorskip("planner.assess")
-    from tests.conftest import SETUPS
+    from tests.conftest import SETUPS, assessed_example
 
-    _check_report_of(SETUPS / f"{name}.yaml")
+    _check_report_of(SETUPS / f"{name}.yaml", assessed_example(name))

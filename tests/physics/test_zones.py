@@ -54,16 +54,39 @@ def largest_field_beyond(bodies, index, radius, count=60000):
 
 
 def farthest_found(bodies, index, threshold, start, directions=6000):
-    """Brute force lower bound of the exact distance: shells from ``start`` inward."""
+    """Brute force lower bound of the exact distance: shells from ``start`` inward, then a
+    local search around the best direction (random turns, bisection along each ray)."""
     unit = RNG.normal(size=(directions, 3))
     unit /= np.linalg.norm(unit, axis=1)[:, None]
     floor = bodies[index].bounding_radius
-    for radius in np.geomspace(start, max(floor, 1e-4), 240):
-        points = bodies[index].center + radius * unit
-        points = points[in_own_cell(bodies, index, points)]
-        if np.nanmax(np.linalg.norm(field_of_bodies(bodies, points), axis=1)) >= threshold:
-            return radius
-    return floor
+    centre = bodies[index].center
+
+    def reached(points):
+        keep = in_own_cell(bodies, index, points)
+        values = np.zeros(len(points))
+        values[keep] = np.linalg.norm(field_of_bodies(bodies, points[keep]), axis=1)
+        return np.nan_to_num(values) >= threshold
+
+    shells = np.geomspace(start, max(floor, 1e-4), 240)
+    for outer, radius in zip(np.concatenate([[start], shells[:-1]]), shells):
+        hits = reached(centre + radius * unit)
+        if hits.any():
+            break
+    else:
+        return floor
+    best = unit[hits][0]
+    for spread in (0.2, 0.05, 0.01):
+        trial = best + spread * RNG.normal(size=(400, 3))
+        trial = np.vstack([best, trial / np.linalg.norm(trial, axis=1)[:, None]])
+        low, high = np.full(len(trial), 0.0), np.full(len(trial), outer)
+        low[reached(centre + radius * trial)] = radius
+        for _ in range(25):
+            middle = np.where(low > 0, 0.5 * (low + high), radius)
+            ok = reached(centre + middle[:, None] * trial) & (low > 0)
+            low = np.where(ok, middle, low)
+            high = np.where(ok | (low == 0), high, middle)
+        radius, best = max(radius, float(low.max())), trial[np.argmax(low)]
+    return radius
 
 
 # --- keep-out distance -------------------------------------------------------------------

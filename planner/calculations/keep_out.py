@@ -21,6 +21,10 @@ from planner.setup.geometry import bodies_of
 
 #: Thresholds drawn on the maps, when present (the most asked-for lines).
 MAP_THRESHOLDS = ("implant_keep_out", "cards", "projectile_line", "watches", "instruments")
+#: Thresholds that get a keep-out distance per magnet: people with implants, cards, the projectile line,
+#: watches, instruments, storage media and the public exposure limit. The context rows (the 2022 MR
+#: contour, the implant makers' test level, the enhanced watch class) are compared with the zones only.
+KEEP_OUT_THRESHOLDS = MAP_THRESHOLDS + ("storage_media", "public_exposure")
 #: Zone kinds where people are unless the file says otherwise.
 PEOPLE_KINDS = {"seating", "standing", "walkway", "door", "desk", "next_room", "stage"}
 MAP_RESOLUTION = 241
@@ -39,15 +43,15 @@ def field_thresholds(thresholds: list[Threshold]) -> list[Threshold]:
 def keep_out_distances(setup: Setup, thresholds: list[Threshold]) -> list[KeepOut]:
     """The keep-out distance of every magnet for every field threshold [m from the centre]."""
     bodies = bodies_of(setup)
-    rows = field_thresholds(thresholds)
+    rows = [t for t in field_thresholds(thresholds) if t.id in KEEP_OUT_THRESHOLDS]
     if not bodies or not rows:
         return []
-    values = np.array([t.value for t in rows])
+    values = np.unique([t.value for t in rows])  # thresholds of equal value share one computation
     result = []
     for index, magnet in enumerate(setup.magnets):
-        radii = keep_out_radii(bodies, index, values)
-        result += [KeepOut(threshold_id=t.id, threshold_T=t.value, magnet_id=magnet.id, distance_m=float(r),
-                           origin=t.origin, source=t.source) for t, r in zip(rows, radii)]
+        radius_of = dict(zip(values.tolist(), keep_out_radii(bodies, index, values)))
+        result += [KeepOut(threshold_id=t.id, threshold_T=t.value, magnet_id=magnet.id,
+                           distance_m=float(radius_of[t.value]), origin=t.origin, source=t.source) for t in rows]
     return result
 
 

@@ -20,6 +20,7 @@ import math
 from dataclasses import dataclass, field
 
 from planner.assessment import Threshold
+from planner.units import format_flux_density
 
 __all__ = ["Finding", "SEVERITIES", "BLOCKING", "ACTION", "NOTE", "severity_rank", "DEFERRAL",
            "deferral_line", "show", "show_field", "threshold_text", "source_entry", "threshold_map",
@@ -126,14 +127,7 @@ def plain_number(value: float) -> str:
 
 def show_field(tesla) -> str:
     """A flux density for people: ``0.5 mT``, ``1.32 T``, ``0.525 uT``."""
-    if not is_number(tesla):
-        return "not available"
-    size = abs(tesla)
-    if size >= 1.0:
-        return f"{tesla:.3g} T"
-    if size >= 1e-4 or size == 0:
-        return f"{tesla * 1e3:.3g} mT"
-    return f"{tesla * 1e6:.3g} uT"
+    return format_flux_density(tesla) if is_number(tesla) else "not available"
 
 
 def show(value, kind: str) -> str:

@@ -11,7 +11,7 @@ import numpy as np
 
 from planner.cli import UserInputError, guarded, setup_argument
 from planner.setup import load_setup
-from planner.units import UnitError, to_si, vector_to_si
+from planner.units import UnitError, format_flux_density, to_si, vector_to_si
 
 
 def _point(text: str) -> np.ndarray:
@@ -44,14 +44,8 @@ def _csv(points: np.ndarray, values: np.ndarray) -> str:
 
 
 def _format_tesla(value: float) -> str:
-    if not math.isfinite(value):
-        return "undefined (on a surface or edge)"
-    magnitude = abs(value)
-    if magnitude >= 1:
-        return f"{value:.4g} T"
-    if magnitude >= 1e-3 or magnitude == 0:
-        return f"{value * 1e3:.4g} mT"
-    return f"{value * 1e6:.4g} uT"
+    text = format_flux_density(value, digits=4)
+    return "undefined (on a surface or edge)" if text == "not available" else text
 
 
 @click.command()

@@ -238,3 +238,22 @@ def vector_to_si(value, kind: str) -> tuple[float, float, float]:
         except UnitError as error:
             raise UnitError(f"component {index + 1} {error}") from None
     return tuple(result)
+
+
+def format_flux_density(tesla: float, digits: int = 3) -> str:
+    """A flux density for people, in T, mT or uT: ``0.5 mT``, ``1.32 T``, ``0.525 uT``.
+
+    mT from 0.1 mT up, the unit the thresholds of the trade are written in; ``not available``
+    for NaN or infinity.
+
+    >>> format_flux_density(5e-4), format_flux_density(1.32), format_flux_density(5.25e-7)
+    ('0.5 mT', '1.32 T', '0.525 uT')
+    """
+    if tesla is None or not math.isfinite(tesla):
+        return "not available"
+    size = abs(tesla)
+    if size >= 1.0:
+        return f"{tesla:.{digits}g} T"
+    if size >= 1e-4 or size == 0:
+        return f"{tesla * 1e3:.{digits}g} mT"
+    return f"{tesla * 1e6:.{digits}g} uT"

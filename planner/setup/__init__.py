@@ -16,7 +16,7 @@ from pathlib import Path
 from pydantic import ValidationError
 
 from planner.setup import model
-from planner.setup.checks import all_problems
+from planner.setup.checks import all_problems, grade_problems_of_left_out
 from planner.setup.loading import (LineIndex, Problem, SetupError, problems_from_validation, read_document,
                                    read_file_text)
 from planner.setup.model import Setup, SiteRules
@@ -94,11 +94,14 @@ def _problems_of_the_rest(data: dict, error: ValidationError, index: LineIndex) 
         ignored |= {str(items[i].get("id")) for i in range(len(items)) if (group, i) in bad_items and isinstance(items[i], dict)}
         rest[group] = [items[i] for i in kept]
         positions[group] = kept
+    left_out_magnets = sorted(i for group, i in bad_items if group == "magnets")
+    extra = grade_problems_of_left_out(data["magnets"], left_out_magnets, index) \
+        if isinstance(data.get("magnets"), list) else []
     try:
         salvaged = Setup.model_validate(rest)
     except ValidationError:
-        return []
-    return all_problems(salvaged, index, positions, frozenset(ignored))
+        return extra
+    return extra + all_problems(salvaged, index, positions, frozenset(ignored))
 
 
 def load_setup(path: str | Path) -> Setup:

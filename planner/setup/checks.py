@@ -55,6 +55,29 @@ def _check_ids(setup, add) -> None:
                 seen[part.id] = loc
 
 
+def unknown_grade_message(name: str) -> str:
+    """The message for a grade name that is not in the table, with the closest names."""
+    close = materials.nearest_names(name, materials.grades())
+    hint = f"; did you mean {', '.join(f'`{c}`' for c in close)}?" if close else "."
+    others = ", ".join(n for n in materials.grades() if not n.startswith("N"))
+    return f"`{name}` is not a known grade{hint} Known: {_ndfeb_summary()}; {others}"
+
+
+def grade_problems_of_left_out(items: list, positions: list, index: LineIndex) -> list[Problem]:
+    """Unknown grades of magnets left out of the cross checks for other problems.
+
+    So that one file run shows a magnet's bad grade together with its other problems.
+    """
+    problems = []
+    for position in positions:
+        item = items[position]
+        grade = item.get("grade") if isinstance(item, dict) else None
+        if isinstance(grade, str) and materials.find_grade(grade) is None:
+            loc = ("magnets", position, "grade")
+            problems.append(Problem(format_path(loc), unknown_grade_message(grade), index.line(loc)))
+    return problems
+
+
 def _check_magnets(setup, add) -> None:
     limit = materials.MAX_PERMANENT_MAGNET_REMANENCE_T
     for position, magnet in enumerate(setup.magnets):
@@ -62,10 +85,7 @@ def _check_magnets(setup, add) -> None:
         if magnet.grade is None and magnet.remanence is None:
             add(loc, "needs a `grade` (e.g. N42) or a `remanence` (e.g. `1.3 T`)")
         if magnet.grade is not None and materials.find_grade(magnet.grade) is None:
-            close = materials.nearest_names(magnet.grade, materials.grades())
-            hint = f"; did you mean {', '.join(f'`{c}`' for c in close)}?" if close else "."
-            others = ", ".join(n for n in materials.grades() if not n.startswith("N"))
-            add(loc + ("grade",), f"`{magnet.grade}` is not a known grade{hint} Known: {_ndfeb_summary()}; {others}")
+            add(loc + ("grade",), unknown_grade_message(magnet.grade))
         if magnet.remanence is not None and magnet.remanence > limit:
             add(loc + ("remanence",),
                 f"is {magnet.remanence:g} T, but no permanent-magnet material has a remanence above about 1.5 T "

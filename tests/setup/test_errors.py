@@ -582,3 +582,14 @@ def test_errors_in_two_items_of_the_same_list_are_both_reported():
     text = edit("    height: 5 mm", "    height: five", text)
     problems = problems_of(text)
     assert [p.path for p in problems] == ["magnets[0].height", "magnets[1].height"]
+
+
+def test_a_magnet_with_a_bad_value_still_has_its_unknown_grade_reported():
+    # Two problems on one magnet: the unit error and the unknown grade both appear in one run.
+    text = ("title: t\nmagnets:\n  - id: disc\n    shape: cylinder\n    diameter: 25 mm\n"
+            "    at: [0 mm, 0 mm, 5 mm]\n    magnetization: +z\n    height: ten\n    grade: N43\n")
+    with pytest.raises(SetupError) as caught:
+        parse_setup(text)
+    shown = [str(p) for p in caught.value.problems]
+    assert any("`magnets[0].height`" in p and "(line 8)" in p for p in shown)
+    assert any("`magnets[0].grade`" in p and "N43" in p and "(line 9)" in p for p in shown)

@@ -274,3 +274,23 @@ def test_sphere_inside_and_outside():
     np.testing.assert_allclose(field_of_body(body, outside),
                                dipole_field(outside, J * body.volume / mu_0, body.center),
                                rtol=1e-12)
+
+
+def test_result_does_not_depend_on_how_points_are_batched():
+    # identity: each point's field depends on that point alone, so a large call (processed in
+    # blocks, with near, far-field and edge points mixed in one block) must give exactly the
+    # per-point values, whatever the order of the points
+    from planner.physics.fields.chunking import BLOCK_POINTS
+
+    rng = np.random.default_rng(41)
+    for body in bodies()[:3]:
+        near = outside_points(body, BLOCK_POINTS + 500, rng, low=0.2, high=3.0)
+        far = outside_points(body, 300, rng, low=1.2 * FAR_FIELD_RADII, high=2 * FAR_FIELD_RADII)
+        points = np.vstack([near, far])
+        order = rng.permutation(len(points))
+        together = field_of_body(body, points)
+        np.testing.assert_allclose(field_of_body(body, points[order]), together[order],
+                                   rtol=1e-13, atol=1e-18)
+        for index in rng.choice(len(points), 40, replace=False):
+            np.testing.assert_allclose(field_of_body(body, points[index]), together[index],
+                                       rtol=1e-13, atol=1e-18)

@@ -91,6 +91,7 @@ class ZoneReach:
     reached: bool
     people: bool
     contains: list[str]
+    depth_m: float = 0.0   # how far into the zone, from its nearest side, the field surely reaches the threshold
 
 
 @dataclass

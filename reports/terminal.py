@@ -123,7 +123,12 @@ def _keep_out(out, assessment):
         for r in assessment.zone_reach:
             seen.setdefault(r.zone_id, r)
         for zone_id, r in seen.items():
-            reached = sorted({x.threshold_id for x in reach if x.zone_id == zone_id})
+            deepest = {}
+            for x in reach:
+                if x.zone_id == zone_id:
+                    depth = getattr(x, "depth_m", 0.0)
+                    deepest[x.threshold_id] = max(deepest.get(x.threshold_id, 0.0), depth if is_number(depth) else 0.0)
+            reached = [f"{t} ({show(d, 'length')} in)" if d > 0 else t for t, d in sorted(deepest.items())]
             people = "people" if r.people else "no people"
             out += _wrap(f"{zone_id} ({r.zone_kind}, {people}): {show_field(r.max_field_T)}"
                          + (f"; reaches {', '.join(reached)}" if reached else ""), "    ")

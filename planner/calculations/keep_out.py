@@ -105,5 +105,5 @@ def zone_reaches(setup: Setup, thresholds: list[Threshold]) -> list[ZoneReach]:
             result.append(ZoneReach(zone_id=zone.id, zone_kind=zone.kind, threshold_id=threshold.id,
                                     threshold_T=threshold.value, max_field_T=float(reach["max_field"][0]),
                                     reached=bool(reach["reached"][0, position]), people=people,
-                                    contains=list(zone.contains)))
+                                    contains=list(zone.contains), depth_m=float(reach["depth"][0, position])))
     return result

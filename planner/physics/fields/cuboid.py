@@ -72,12 +72,13 @@ _PAIRS = ((0, 1), (0, 2), (1, 2))
 
 def _block_field_block(points, half, polarization):
     """:func:`block_field` for one block of points (see there); ``half`` = half-sides."""
-    count = len(points)
-    signs = np.where(points < 0, -1.0, 1.0)
     folded = np.abs(points)
     # differences to the minus corner (x + h > 0) and to the plus corner (x - h, any sign)
     diff = [(folded[:, axis] + half[axis], folded[:, axis] - half[axis]) for axis in range(3)]
     squares = [(d[0] * d[0], d[1] * d[1]) for d in diff]
+    # rows inside the slab |x| < h of each axis: there x - h < 0, and ln(x - h + r) is taken
+    # in the cancellation-free form ln((r^2 - (x - h)^2) / (r - (x - h))) on those rows only
+    within = [np.flatnonzero(diff[axis][1] < 0) for axis in range(3)]
     active = polarization != 0.0
     diagonal_axes = [axis for axis in range(3) if active[axis]]
     # with all three needed, T_zz follows from Poisson's equation, trace T = -inside
@@ -85,57 +86,77 @@ def _block_field_block(points, half, polarization):
     if from_trace:
         diagonal_axes = [0, 1]
     pairs = [pair for pair in _PAIRS if active[pair[0]] or active[pair[1]]]
-    diagonal = {axis: np.zeros(count) for axis in diagonal_axes}
-    products = {pair: [np.ones(count), np.ones(count)] for pair in pairs}  # s = +1, s = -1
-    # squared distances across each pair of axes, for the cancellation-free logarithm
-    beyond_face = [diff[axis][1] >= 0 for axis in range(3)]
+    # running sums over the corners, started by the first corner that contributes
+    diagonal = dict.fromkeys(diagonal_axes)
+    products = {pair: [None, None] for pair in pairs}  # corner sign s = +1, s = -1
     with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
         for i in range(2):
             for j in range(2):
                 xy = diff[0][i] * diff[1][j]
-                xy_squared = squares[0][i] + squares[1][j]
+                r_squared_xy = squares[0][i] + squares[1][j]
                 for k in range(2):
                     index = (i, j, k)
                     negative = (i + j + k) % 2
-                    r = np.sqrt(xy_squared + squares[2][k])
-                    xyz = xy * diff[2][k]
+                    r = np.add(r_squared_xy, squares[2][k])
+                    np.sqrt(r, out=r)
+                    xyz = xy * diff[2][k] if diagonal_axes else None
                     for axis in diagonal_axes:
                         # atan(u v / (w r)) = atan(x y z / (w^2 r)); the tiny term makes it 0
                         # for w = 0, the mean of the two sides of that face plane
-                        denominator = squares[axis][index[axis]] * r
-                        denominator += _TINY
-                        angle = np.arctan(np.divide(xyz, denominator, out=denominator))
-                        if negative:
+                        angle = np.multiply(squares[axis][index[axis]], r)
+                        angle += _TINY
+                        np.divide(xyz, angle, out=angle)
+                        np.arctan(angle, out=angle)
+                        if diagonal[axis] is None:
+                            diagonal[axis] = angle if negative else np.negative(angle, out=angle)
+                        elif negative:
                             diagonal[axis] += angle
                         else:
                             diagonal[axis] -= angle
                     for pair in pairs:
                         along = 3 - pair[0] - pair[1]
                         d = diff[along][index[along]]
-                        if index[along] == 0:
-                            term = d + r  # d > 0 here
-                        else:  # cancellation-free for d < 0: d + r = (r^2 - d^2)/(r - d)
-                            across = squares[pair[0]][index[pair[0]]] + squares[pair[1]][index[pair[1]]]
-                            term = np.where(beyond_face[along], d + r, across / (r - d))
-                        products[pair][negative] *= term
+                        term = np.add(d, r)  # d > 0 for the minus corner
+                        rows = within[along]
+                        if index[along] == 1 and rows.size:
+                            across = (squares[pair[0]][index[pair[0]]][rows]
+                                      + squares[pair[1]][index[pair[1]]][rows])
+                            term[rows] = across / (r[rows] - d[rows])
+                        if products[pair][negative] is None:
+                            products[pair][negative] = term
+                        else:
+                            products[pair][negative] *= term
+        flipped = points < 0  # T_xy is odd in x and in y
         offdiagonal = {}
         for pair in pairs:
-            value = np.log(products[pair][0] / products[pair][1]) / _FOUR_PI
-            offdiagonal[pair] = value * signs[:, pair[0]] * signs[:, pair[1]]
+            value = np.divide(products[pair][0], products[pair][1])
+            np.log(value, out=value)
+            value *= 1.0 / _FOUR_PI
+            offdiagonal[pair] = np.where(flipped[:, pair[0]] ^ flipped[:, pair[1]], -value, value)
     with np.errstate(invalid="ignore"):  # NaN rows (edges) are expected here
-        inside = np.ones(count)
-        for axis in range(3):
-            inside *= np.heaviside(half[axis] - folded[:, axis], 0.5)
-        field = np.zeros_like(points)
+        inside = ((folded[:, 0] < half[0]) & (folded[:, 1] < half[1])
+                  & (folded[:, 2] < half[2])).astype(float)
+        if np.any(folded == half):  # on a face: the mean of inside (1) and outside (0)
+            inside = np.ones(len(points))
+            for axis in range(3):
+                inside *= np.heaviside(half[axis] - folded[:, axis], 0.5)
+        field = np.empty_like(points)
         if from_trace:
             diagonal[2] = -_FOUR_PI * inside - diagonal[0] - diagonal[1]
             diagonal_axes = [0, 1, 2]
-        for axis in diagonal_axes:
-            field[:, axis] += (diagonal[axis] / _FOUR_PI + inside) * polarization[axis]
+        for axis in range(3):
+            column = field[:, axis]
+            if axis in diagonal:
+                np.multiply(diagonal[axis], polarization[axis] / _FOUR_PI, out=column)
+                column += inside * polarization[axis]
+            else:
+                column[...] = 0.0
         for first, second in pairs:
             field[:, first] += offdiagonal[(first, second)] * polarization[second]
             field[:, second] += offdiagonal[(first, second)] * polarization[first]
-        field[~np.all(np.isfinite(field), axis=1)] = np.nan
+        finite = np.isfinite(field[:, 0] + field[:, 1] + field[:, 2])
+        if not finite.all():
+            field[~finite] = np.nan
     return field
 
 

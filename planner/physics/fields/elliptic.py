@@ -47,7 +47,10 @@ def complete_elliptic_integrals(kc, groups):
     c' = c + s/p, g = k_e/p, s' = 2 (s + c g), p' = p + g, m' = m + k, k <- 2 sqrt(k_e),
     k_e <- k m' until |m - k| <= 1e-8 m; then C = (pi/2) (s + c m)/(m (m + p)).
     The modulus sequence (k, k_e, m) is shared by all groups. Convergence is quadratic;
-    points with kc -> 0 (the rim of a cylinder face) take a few more steps.
+    points with kc -> 0 (the rim of a cylinder face) take a few more steps. The number of
+    steps is fixed beforehand from the smallest kc (the slowest to converge), so the loop
+    carries no per-step test. For p = 1 the p sequence equals m and g equals k, which
+    saves two array operations per step.
 
     References
     ----------
@@ -61,47 +64,54 @@ def complete_elliptic_integrals(kc, groups):
     True
     """
     kc = np.abs(np.asarray(kc, dtype=float))
+    degenerate = ~(kc > 0)  # kc = 0 (divergent) or NaN never converge; keep them out of the test
+    steps = _steps_needed(kc, degenerate)
     k = kc.copy()
     k_e = kc.copy()
     m = np.ones_like(kc)
     states = []
     for p, pairs in groups:
-        root_p = np.sqrt(np.broadcast_to(np.asarray(p, dtype=float), kc.shape)).copy()
+        # for p = 1 the sequence of p is that of m and g = k: no array of p is needed
+        unit = np.ndim(p) == 0 and float(p) == 1.0
+        root_p = None if unit else np.sqrt(np.broadcast_to(np.asarray(p, dtype=float), kc.shape))
         coefficient_pairs = []
         for c, s in pairs:
-            c_arr = np.array(np.broadcast_to(np.asarray(c, dtype=float), kc.shape))
-            s_arr = np.array(np.broadcast_to(np.asarray(s, dtype=float), kc.shape)) / root_p
-            coefficient_pairs.append([c_arr, s_arr])
-        states.append([root_p, coefficient_pairs])
-    degenerate = ~(kc > 0)  # kc = 0 (divergent) or NaN never converge; keep them out of the test
+            c_arr = np.empty_like(kc)
+            c_arr[...] = c
+            s_arr = np.empty_like(kc)
+            if unit:
+                s_arr[...] = s
+            else:
+                np.divide(s, root_p, out=s_arr)
+            coefficient_pairs.append((c_arr, s_arr))
+        states.append((root_p, coefficient_pairs))
     g = np.empty_like(kc)
-    step = np.empty_like(kc)
     scratch = np.empty_like(kc)
-    for _ in range(_MAX_STEPS):
-        for state in states:
-            root_p, coefficient_pairs = state
-            np.divide(k_e, root_p, out=g)
-            for pair in coefficient_pairs:
-                c_arr, s_arr = pair
-                np.divide(s_arr, root_p, out=scratch)
-                np.multiply(c_arr, g, out=step)
-                np.add(s_arr, step, out=s_arr)
-                np.multiply(s_arr, 2.0, out=s_arr)
+    product = np.empty_like(kc)
+    for step in range(steps):
+        for root_p, coefficient_pairs in states:
+            if root_p is None:
+                p_now, g_now = m, k
+            else:
+                np.divide(k_e, root_p, out=g)
+                p_now, g_now = root_p, g
+            for c_arr, s_arr in coefficient_pairs:
+                # c' = c + s/p and s' = 2 (s + c g), both from the old c and s
+                np.divide(s_arr, p_now, out=scratch)
+                np.multiply(c_arr, g_now, out=product)
+                np.add(s_arr, product, out=s_arr)
+                np.add(s_arr, s_arr, out=s_arr)
                 np.add(c_arr, scratch, out=c_arr)
-            np.add(root_p, g, out=root_p)
-        # convergence test on the shared modulus sequence: |m_old - k| <= tol * m_old
-        np.subtract(m, k, out=scratch)
-        np.abs(scratch, out=scratch)
-        done = bool(np.all((scratch <= _TOLERANCE * m) | degenerate))
+            if root_p is not None:
+                np.add(root_p, g, out=root_p)
         np.add(m, k, out=m)
-        if done:
-            break
-        np.sqrt(k_e, out=k)
-        np.multiply(k, 2.0, out=k)
-        np.multiply(k, m, out=k_e)
+        if step + 1 < steps:
+            np.sqrt(k_e, out=k)
+            np.multiply(k, 2.0, out=k)
+            np.multiply(k, m, out=k_e)
     results = []
     for root_p, coefficient_pairs in states:
-        denominator = m * (m + root_p) / (np.pi / 2)
+        denominator = m * (m + (m if root_p is None else root_p)) / (np.pi / 2)
         group = []
         for c_arr, s_arr in coefficient_pairs:
             value = (s_arr + c_arr * m) / denominator
@@ -109,3 +119,25 @@ def complete_elliptic_integrals(kc, groups):
             group.append(value)
         results.append(group)
     return results
+
+
+def _steps_needed(kc, degenerate):
+    """Number of Bulirsch steps after which every entry of ``kc`` has converged.
+
+    The modulus sequence (the arithmetic-geometric mean of 1 and kc) converges the more
+    slowly the smaller kc, so the count is that of the smallest regular entry; it is run
+    here on one float with the same operations and test as the array loop.
+    """
+    regular = kc[~degenerate] if degenerate.any() else kc
+    if regular.size == 0:
+        return 1
+    k = k_e = float(regular.min())
+    m = 1.0
+    for step in range(1, _MAX_STEPS + 1):
+        converged = abs(m - k) <= _TOLERANCE * m
+        m = m + k
+        if converged:
+            return step
+        k = 2.0 * np.sqrt(k_e)
+        k_e = k * m
+    return _MAX_STEPS

@@ -9,7 +9,7 @@ import numpy as np
 import pytest
 from scipy.constants import mu_0
 from scipy.integrate import quad
-from scipy.special import elliprf, elliprj
+from scipy.special import ellipkm1, elliprf, elliprj
 
 from planner.physics.bodies import MagnetBody, rotation_from_axis
 from planner.physics.fields import (
@@ -111,6 +111,21 @@ def test_bulirsch_matches_carlson():
     rf, rj = elliprf(0, kc**2, 1), elliprj(0, kc**2, 1, p)
     scale = np.abs(c) * rf + np.abs(s - p * c) / 3 * rj
     assert np.max(np.abs(value - (c * rf + (s - p * c) / 3 * rj)) / scale) < 1e-11
+
+
+def test_bulirsch_with_p_one_and_complete_first_kind():
+    # independent computation: for p = 1, C = c R_F(0,kc^2,1) + ((s - c)/3) R_J(0,kc^2,1,1)
+    # (physics.md), and K(k) with k^2 = 1 - kc^2 from scipy.special.ellipkm1 (Cephes)
+    rng = np.random.default_rng(2)
+    kc = np.concatenate([rng.uniform(0, 1, 300), 10 ** rng.uniform(-10, 0, 300), [1.0]])
+    c, s = rng.normal(size=kc.size), rng.normal(size=kc.size)
+    [[value, second]], complete_k = complete_elliptic_integrals(
+        kc, [(1.0, [(c, s), (1.0, -1.0)])], first_kind=True)
+    rf, rj = elliprf(0, kc**2, 1), elliprj(0, kc**2, 1, 1.0)
+    scale = np.abs(c) * rf + np.abs(s - c) / 3 * rj
+    assert np.max(np.abs(value - (c * rf + (s - c) / 3 * rj)) / scale) < 1e-11
+    assert np.max(np.abs(second - (rf - 2 / 3 * rj)) / (rf + 2 / 3 * rj)) < 1e-11
+    np.testing.assert_allclose(complete_k, ellipkm1(kc**2), rtol=1e-13)
 
 
 def test_diametral_cylinder_matches_surface_charge_integral():

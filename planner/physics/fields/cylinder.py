@@ -37,16 +37,21 @@ def _unit_cylinder_terms(rho, z, radius, half_height, transverse):
     outer = np.sqrt(zeta * zeta + sum_radius * sum_radius)
     kc = np.sqrt(zeta * zeta + (a - rho2) ** 2) / outer
     gamma = (a - rho2) / sum_radius
-    on_rim = gamma == 0.0
     # at rho = a exactly (gamma = 0, p = 0) C(kc, p, 1, gamma) -> K(kc) +- pi/(2 kc); take the
     # mean of the two sides, K(kc) = C(kc, 1, 1, 1): B_z there is the average of in and out.
-    p = np.where(on_rim, 1.0, gamma * gamma)
-    s_axial = np.where(on_rim, 1.0, gamma)
+    gamma_squared = gamma * gamma
+    on_rim = gamma == 0.0
+    if on_rim.any():
+        p = np.where(on_rim, 1.0, gamma_squared)
+        s_axial = np.where(on_rim, 1.0, gamma)
+    else:
+        p, s_axial = gamma_squared, gamma
     groups = [(1.0, [(1.0, -1.0)]), (p, [(1.0, s_axial)])]
     if transverse:
-        groups[0][1].append((0.0, 1.0))
         groups[1][1].append((0.0, 1.0))
-    values = complete_elliptic_integrals(kc, groups)
+        values, complete_k = complete_elliptic_integrals(kc, groups, first_kind=True)
+    else:
+        values = complete_elliptic_integrals(kc, groups)
     alpha = a / outer
     beta = zeta / outer
     n = rho.shape[0]
@@ -56,7 +61,11 @@ def _unit_cylinder_terms(rho, z, radius, half_height, transverse):
     b_z = a / (a + rho) * (axial_terms[:n] - axial_terms[n:]) / np.pi
     if not transverse:
         return b_rho, b_z, None
-    bracket = values[0][1] - (gamma * gamma) * values[1][1]
+    # C(kc,1,0,1) = (K - C(kc,1,1,-1))/2 by linearity in (c, s), as K = C(kc,1,1,1); for
+    # kc <= 1, K > 0 and C(kc,1,1,-1) <= 0, so this adds two positive numbers: no cancellation
+    sine_integral = complete_k - values[0][0]
+    sine_integral *= 0.5
+    bracket = sine_integral - gamma_squared * values[1][1]
     bracket_terms = beta * bracket
     near_axis = rho < _AXIS_FRACTION * a
     with np.errstate(divide="ignore", invalid="ignore"):

@@ -24,7 +24,7 @@ _TOLERANCE = 1e-8  # Bulirsch's test |g - kc| <= tol*g; quadratic convergence th
 _MAX_STEPS = 60
 
 
-def complete_elliptic_integrals(kc, groups):
+def complete_elliptic_integrals(kc, groups, first_kind=False):
     """Bulirsch's C(kc, p, c, s) for several (p, [(c, s), ...]) groups sharing ``kc``.
 
     Parameters
@@ -35,11 +35,16 @@ def complete_elliptic_integrals(kc, groups):
     groups : list of (p, list of (c, s))
         Each p > 0 (scalar or array broadcastable to ``kc``) with its pairs of
         coefficients c, s (scalars or arrays) [-].
+    first_kind : bool
+        Also return Legendre's K = C(kc, 1, 1, 1), which the shared modulus sequence
+        gives at no cost.
 
     Returns
     -------
     list of list of ndarray
         ``result[i][j]`` is C(kc, p_i, c_ij, s_ij) [-].
+    ndarray, only if ``first_kind``
+        K(k) with k^2 = 1 - kc^2 [-].
 
     Notes
     -----
@@ -50,7 +55,9 @@ def complete_elliptic_integrals(kc, groups):
     points with kc -> 0 (the rim of a cylinder face) take a few more steps. The number of
     steps is fixed beforehand from the smallest kc (the slowest to converge), so the loop
     carries no per-step test. For p = 1 the p sequence equals m and g equals k, which
-    saves two array operations per step.
+    saves two array operations per step. For (p, c, s) = (1, 1, 1) the iteration gives
+    c = 2^n, s = 2^n m after n steps, so K = (pi/2) 2^n / m: Gauss's arithmetic-geometric
+    mean, K = pi / (2 AGM(1, kc)).
 
     References
     ----------
@@ -118,6 +125,10 @@ def complete_elliptic_integrals(kc, groups):
             value[degenerate] = np.nan
             group.append(value)
         results.append(group)
+    if first_kind:
+        complete_k = (np.pi / 2 * 2.0**steps) / m
+        complete_k[degenerate] = np.nan
+        return results, complete_k
     return results
 
 

@@ -309,3 +309,24 @@ def test_result_does_not_depend_on_how_points_are_batched():
         for index in rng.choice(len(points), 40, replace=False):
             np.testing.assert_allclose(field_of_body(body, points[index]), together[index],
                                        rtol=1e-13, atol=1e-18)
+
+
+def test_round_off_across_the_axis_is_dropped_but_real_components_are_kept():
+    # isotropy: a cylinder whose axis is built from its own J is an axial magnet turned
+    # round, B = R B_axial(R^T (p - c)); superposition: a real transverse part of 1e-9 |J|
+    # adds exactly the field of that part (it must not be mistaken for round-off)
+    J = 1.3 * np.array([0.3, -0.5, 0.8]) / np.linalg.norm([0.3, -0.5, 0.8])
+    turn = rotation_from_axis(J)
+    centre = np.array([0.002, -0.001, 0.003])
+    body = MagnetBody("cylinder", centre, turn, J, diameter=0.02, height=0.01)
+    points = outside_points(body, 300, np.random.default_rng(50), low=0.2)
+    local = (points - centre) @ turn
+    expected = cylinder_field(local, 0.02, 0.01, [0.0, 0.0, 1.3]) @ turn.T
+    np.testing.assert_allclose(field_of_body(body, points), expected, rtol=1e-12, atol=1e-16)
+    shapes = ((cylinder_field, (0.02, 0.01)), (block_field, ([0.02, 0.01, 0.03],)))
+    for field_function, size in shapes:
+        small = np.array([1e-9 * 1.3, 0.0, 1.3])
+        difference = (field_function(local, *size, small)
+                      - field_function(local, *size, [0.0, 0.0, 1.3]))
+        np.testing.assert_allclose(difference, field_function(local, *size, [1e-9 * 1.3, 0, 0]),
+                                   rtol=1e-4, atol=1e-15)  # 1e-15 T: round-off of B ~ 0.1 T

@@ -7,7 +7,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from planner.physics.fields.chunking import in_blocks
+from planner.physics.fields.chunking import in_blocks, without_rounding_noise
 
 _FOUR_PI = 4.0 * np.pi
 _TINY = np.finfo(float).tiny
@@ -63,7 +63,7 @@ def block_field(points, size, polarization):
     [0.01561, 0.01561, 0.0]
     """
     half = np.asarray(size, dtype=float).reshape(3) / 2.0
-    polarization = np.asarray(polarization, dtype=float).reshape(3)
+    polarization = without_rounding_noise(polarization)
     return in_blocks(_block_field_block, points, half, polarization)
 
 

@@ -16,7 +16,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from planner.physics.fields.chunking import in_blocks
+from planner.physics.fields.chunking import in_blocks, without_rounding_noise
 from planner.physics.fields.elliptic import complete_elliptic_integrals
 
 _AXIS_FRACTION = 3e-6  # rho below this fraction of the radius: on-axis limit of W (error ~1e-11)
@@ -128,7 +128,7 @@ def cylinder_field(points, diameter, height, polarization):
     >>> [round(float(v), 4) for v in B[0]]
     [0.0556, 0.0, 0.0669]
     """
-    polarization = np.asarray(polarization, dtype=float).reshape(3)
+    polarization = without_rounding_noise(polarization)
     return in_blocks(_cylinder_field_block, points, diameter / 2.0, height / 2.0, polarization)
 
 

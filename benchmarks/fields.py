@@ -5,10 +5,12 @@ Run by hand (not part of the test suite):  python benchmarks/fields.py [points]
 For each shape: points per second of field_of_body and of magpylib on the same random
 points in the same run, their ratio, the largest relative difference |dB|/|B| and the
 peak memory traced by tracemalloc while our function runs. magpylib is used here only as
-a reference (it is a test-only dependency).
+a reference (it is a test-only dependency). The two are timed alternately, best of five,
+so that load from other processes affects both alike; the load average is printed.
 """
 from __future__ import annotations
 
+import os
 import sys
 import time
 import tracemalloc
@@ -23,6 +25,8 @@ TURN = rotation_from_axis([0.3, -0.5, 0.8])
 CASES = [
     ("cylinder, axial", MagnetBody("cylinder", [0, 0, 0], np.eye(3), [0, 0, 1.3],
                                    diameter=0.02, height=0.01)),
+    ("cylinder, axial, rotated", MagnetBody("cylinder", [0.001, 0, 0], TURN, TURN @ [0, 0, 1.3],
+                                            diameter=0.02, height=0.01)),
     ("cylinder, tilted J, rotated", MagnetBody("cylinder", [0.001, 0, 0], TURN,
                                                TURN @ [0.6, -0.4, 1.0], diameter=0.02, height=0.01)),
     ("ring, axial", MagnetBody("ring", [0, 0, 0], np.eye(3), [0, 0, 1.3], diameter=0.02,
@@ -69,7 +73,9 @@ def main(count=10**6):
 
     rng = np.random.default_rng(0)
     points = rng.uniform(-0.05, 0.05, (count, 3))
-    print(f"{count} random points in a 10 cm cube; best of 5 alternating runs each")
+    load = os.getloadavg()[0] if hasattr(os, "getloadavg") else float("nan")
+    print(f"{count} random points in a 10 cm cube; best of 5 alternating runs each; "
+          f"load average {load:.2f} on {os.cpu_count()} processors")
     print(f"{'case':30s} {'ours [pt/s]':>12s} {'magpylib':>12s} {'ratio':>6s} "
           f"{'max rel diff':>12s} {'peak MB':>8s}")
     for name, body in CASES:

@@ -98,7 +98,7 @@ def farthest_start_radius(bodies: list[MagnetBody], index: int, threshold: float
     return high
 
 
-def _march(bodies, index, axes, half_angles, radii, threshold, allowed_error):
+def _march(bodies, index, axes, half_angles, radii, threshold, allowed_error, table=None):
     """Walk each cone inward from ``radii`` while a slab bound proves it below threshold.
 
     Returns the proven radius of each cone and the farthest radius found at or above the
@@ -132,7 +132,7 @@ def _march(bodies, index, axes, half_angles, radii, threshold, allowed_error):
         if need_field.any():
             depth, value, error = certified_depth(
                 bodies, points[need_field], axes[idx[need_field]], r[need_field],
-                half_angles[idx[need_field]], threshold, allowed_error)
+                half_angles[idx[need_field]], threshold, allowed_error, table)
             hit = (value - error >= threshold) & (into_other[need_field] <= 0)
             if hit.any():
                 found = max(found, float(np.max(r[need_field][hit])))
@@ -171,18 +171,19 @@ def keep_out_radii(bodies: list[MagnetBody], index: int, thresholds) -> np.ndarr
     result = np.empty(len(thresholds))
     floor = bodies[index].bounding_radius
     previous = None
+    table = bounds.BodyTable(bodies)
     for position in np.argsort(thresholds):
         threshold = thresholds[position]
         start = farthest_start_radius(bodies, index, threshold)
         if previous is not None:
             start = min(start, previous)
-        radius = _refine(bodies, index, threshold, start)
-        radius = _verify(bodies, index, threshold, max(radius, floor))
+        radius = _refine(bodies, index, threshold, start, table)
+        radius = _verify(bodies, index, threshold, max(radius, floor), table=table)
         result[position] = previous = radius * (1 + 1e-9)  # rounding, outward
     return result
 
 
-def _probe(bodies, index, axes, radii, threshold, samples=24, halvings=8):
+def _probe(bodies, index, axes, radii, threshold, samples=24, halvings=8, table=None):
     """Farthest radius found on the given axes, inside ``radii``, where |B| surely >= threshold.
 
     A lower bound of the exact distance (used only to decide where to refine): geometric
@@ -202,7 +203,7 @@ def _probe(bodies, index, axes, radii, threshold, samples=24, halvings=8):
             keep = distance.ravel() <= nearest
         reached = np.zeros(len(points), bool)
         if keep.any():
-            value, error = field_with_error(bodies, points[keep], 2e-3 * threshold)
+            value, error = field_with_error(bodies, points[keep], 2e-3 * threshold, table)
             reached[keep] = value - error >= threshold
         return reached.reshape(distance.shape)
 
@@ -229,7 +230,7 @@ def _close_enough(proven, best):
     return proven <= np.maximum(best * (1 + RELATIVE_TARGET), best + ABSOLUTE_TARGET)
 
 
-def _refine(bodies, index, threshold, start):
+def _refine(bodies, index, threshold, start, table=None):
     """Adaptive cones: subdivide those whose proven radius is not yet close to the best hit."""
     allowed_error = 2e-3 * threshold
     triangles = icosahedron_triangles(START_LEVEL)
@@ -239,15 +240,16 @@ def _refine(bodies, index, threshold, start):
     best_hit = 0.0 if bodies[index].shape == "sphere" else bodies[index].bounding_radius
     # The proven start itself may already be close enough to a point found at the threshold.
     directions = fibonacci_directions(PROBED_CONES * 4)
-    best_hit = max(best_hit, _probe(bodies, index, directions, np.full(len(directions), start), threshold))
+    best_hit = max(best_hit, _probe(bodies, index, directions, np.full(len(directions), start), threshold,
+                                    table=table))
     if _close_enough(start, best_hit):
         return start
     settled = 0.0
     for level in range(START_LEVEL, MAX_LEVEL + 1):
         axes, half_angles = cone_of_triangle(triangles)
-        proven, hit = _march(bodies, index, axes, half_angles, starts, threshold, allowed_error)
+        proven, hit = _march(bodies, index, axes, half_angles, starts, threshold, allowed_error, table)
         top = np.argsort(proven)[-PROBED_CONES:]
-        best_hit = max(best_hit, hit, _probe(bodies, index, axes[top], proven[top], threshold))
+        best_hit = max(best_hit, hit, _probe(bodies, index, axes[top], proven[top], threshold, table=table))
         open_ = ~_close_enough(proven, best_hit)
         if (~open_).any():
             settled = max(settled, float(np.max(proven[~open_])))
@@ -258,7 +260,7 @@ def _refine(bodies, index, threshold, start):
     return settled  # not reached
 
 
-def _verify(bodies, index, threshold, radius, directions=1500):
+def _verify(bodies, index, threshold, radius, directions=1500, table=None):
     """Belt and braces: sample just outside ``radius``; grow past any sample at threshold."""
     centre = bodies[index].center
     others = np.array([b.center for i, b in enumerate(bodies) if i != index]).reshape(-1, 3)
@@ -270,7 +272,7 @@ def _verify(bodies, index, threshold, radius, directions=1500):
             own = np.linalg.norm(points - centre, axis=1)
             nearest = np.min(np.linalg.norm(points[:, None] - others[None], axis=2), axis=1)
             points = points[own <= nearest]
-        value, error = field_with_error(bodies, points, 2e-3 * threshold)
+        value, error = field_with_error(bodies, points, 2e-3 * threshold, table)
         reached = value + error >= threshold
         if not reached.any():
             return radius

@@ -98,11 +98,12 @@ def farthest_start_radius(bodies: list[MagnetBody], index: int, threshold: float
     return high
 
 
-def _march(bodies, index, axes, half_angles, radii, threshold, allowed_error, table=None):
+def _march(bodies, index, axes, half_angles, radii, threshold, allowed_error, table=None, goal=0.0):
     """Walk each cone inward from ``radii`` while a slab bound proves it below threshold.
 
     Returns the proven radius of each cone and the farthest radius found at or above the
-    threshold on the cone axes (a lower bound of the exact distance; 0 if none).
+    threshold on the cone axes (a lower bound of the exact distance; 0 if none). Walks stop
+    at ``goal`` [m]: a radius the caller's answer cannot go below anyway.
     """
     centre = bodies[index].center
     others = [i for i in range(len(bodies)) if not np.allclose(bodies[i].center, centre)]
@@ -111,7 +112,7 @@ def _march(bodies, index, axes, half_angles, radii, threshold, allowed_error, ta
     if len(others):
         normals = normals / (2 * half_gaps[:, None])
     radii = radii.astype(float).copy()
-    floor = bodies[index].bounding_radius
+    floor = max(bodies[index].bounding_radius, goal)
     active = radii > floor
     found = 0.0
     for _ in range(400):
@@ -247,7 +248,10 @@ def _refine(bodies, index, threshold, start, table=None):
     settled = 0.0
     for level in range(START_LEVEL, MAX_LEVEL + 1):
         axes, half_angles = cone_of_triangle(triangles)
-        proven, hit = _march(bodies, index, axes, half_angles, starts, threshold, allowed_error, table)
+        # The answer is at least best_hit (the cone holding that point cannot be proven
+        # below it) and at least settled: walking a cone below both changes nothing.
+        proven, hit = _march(bodies, index, axes, half_angles, starts, threshold, allowed_error, table,
+                             goal=max(settled, best_hit))
         top = np.argsort(proven)[-PROBED_CONES:]
         best_hit = max(best_hit, hit, _probe(bodies, index, axes[top], proven[top], threshold, table=table))
         open_ = ~_close_enough(proven, best_hit)

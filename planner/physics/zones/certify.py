@@ -9,7 +9,8 @@ direction of farthest reach the across part of grad g is nearly zero, so the con
 enters only quadratically: coarse cones suffice where it matters.
 
 grad g(y) = 2 Jac(y)^T B(y) uses a central-difference Jacobian of the field model; its error
-is bounded by (eps^2 / 6) sqrt(3) L3 (Taylor remainder), plus the model's own derivative error.
+is bounded by (eps^2 / 6) sqrt(3) L3 (Taylor remainder), plus the error of the field values
+(relative 1e-8, divided by the step) and the model's own derivative error.
 
 Derivative bounds of order n for one body (see ``bounds``; (n+2)! from the Legendre
 expansion, the surface-charge forms from integrating 1/r^(n+2) over a plane or a cylinder):
@@ -174,7 +175,11 @@ def field_and_gradient(bodies, points, allowed_error, table=None):
         values = exact_body_field(body, stacked).reshape(7, len(near), 3)
         field[near] += values[0]
         jacobian[near] += np.transpose((values[1:4] - values[4:7]) / (2 * h[None, :, None]), (1, 0, 2))
-        jacobian_error[near] += 1e-14 * np.max(np.abs(values), axis=(0, 2)) / h  # rounding
+        # Error of the field values themselves: the fields module states a relative error
+        # of a few 1e-9 at worst (its far-field expansion; a few 1e-10 at the near-axis
+        # switch), so each entry (f(x + h) - f(x - h)) / 2h is off by at most
+        # 1e-8 max|B| / h and the 3 x 3 Frobenius norm by three times that.
+        jacobian_error[near] += 3e-8 * np.max(np.abs(values), axis=(0, 2)) / h
     jacobian_error += np.sqrt(3) * step**2 / 6 * derivative_bound(geometry, step, 3)  # truncation
     size = np.sqrt(np.sum(field**2, axis=1))
     gradient = 2 * np.einsum("njl,nl->nj", jacobian, field)

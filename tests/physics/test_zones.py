@@ -252,3 +252,40 @@ def test_plan_rectangle_at_height():
     low = zone_reach([ball], [rectangle], [1e-3], height=0.03)
     # Dipole on axis: 1 mT out to 4.6 cm (eq. 5.56): reached at 3 cm, not at 1 m.
     assert low["reached"][0, 0] and not high["reached"][0, 0]
+
+
+# --- proof ingredients -------------------------------------------------------------------
+
+@pytest.mark.parametrize("shape", ["cylinder", "ring", "block", "sphere"])
+def test_derivative_bounds_hold_beside_the_body(shape):
+    from planner.physics.zones.bounds import BodyTable, _ball_geometry
+    from planner.physics.zones.certify import derivative_bounds
+
+    rotation = rotation_from_axis([0.3, -0.2, 1.0])
+    polarization = [0.4, -0.3, 1.1]
+    if shape == "block":
+        body = MagnetBody(shape, [0, 0, 0], rotation, polarization, size=[0.03, 0.02, 0.008])
+    elif shape == "sphere":
+        body = MagnetBody(shape, [0, 0, 0], rotation, polarization, diameter=0.02)
+    else:
+        body = MagnetBody(shape, [0, 0, 0], rotation, polarization, diameter=0.03, height=0.006,
+                          inner_diameter=0.012 if shape == "ring" else 0.0)
+    unit = RNG.normal(size=(300, 3))
+    unit /= np.linalg.norm(unit, axis=1)[:, None]
+    points = unit * body.bounding_radius * (1.02 + 1.5 * RNG.random(300))[:, None]
+    first, second = derivative_bounds(_ball_geometry([body], points, BodyTable([body])), np.zeros(300), (1, 2))
+    # Independent check: central differences of the exact field (Jacobian and its change);
+    # the bound is on the operator norm, so the largest singular value must stay below it.
+    h = 1e-6 * body.bounding_radius
+    steps = np.eye(3) * h
+
+    def jacobian(at):
+        return np.stack([(field_of_bodies([body], at + e) - field_of_bodies([body], at - e)) / (2 * h)
+                         for e in steps], axis=1)
+
+    slope = np.linalg.norm(jacobian(points), ord=2, axis=(1, 2))
+    assert np.all(slope <= first)
+    curvature = np.max([np.linalg.norm((jacobian(points + e) - jacobian(points - e)) / (200 * h), ord=2, axis=(1, 2))
+                        for e in steps * 100], axis=0)
+    # One direction at a time is a lower estimate of ||D^2 B||, which the bound must exceed.
+    assert np.all(curvature <= second)

@@ -38,8 +38,9 @@ def assumptions(setup: Setup, assessment: Assessment) -> list[str]:
         "Magnets are uniformly magnetized, with polarization equal to the top of the grade's remanence range and "
         "recoil permeability 1: fields and forces come out a few percent high, the safe side for keep-out lines "
         "and pinch figures.",
-        "Keep-out distances are proven upper bounds: the exact distance is never larger, and at most 5 % or 5 mm "
-        "smaller. Several magnets' fields are added; a point is counted for the magnet whose centre is nearest.",
+        "Keep-out distances are proven upper bounds: the exact distance is never larger, and normally at most 5 % "
+        "or 5 mm smaller (more where the proof's budget ran out). Several magnets' fields are added; a point is "
+        "counted for the magnet whose centre is nearest.",
         "The pole-face field is taken at the centre of the face; near a face's rim the field can be higher.",
     ]
     if assessment.pairs:

@@ -8,6 +8,14 @@ x - y into a part along the cone axis (|alpha| <= s + r (1 - cos delta)) and a p
 direction of farthest reach the across part of grad g is nearly zero, so the cone width
 enters only quadratically: coarse cones suffice where it matters.
 
+The Jacobian at y is known (below), so L1 and L0 are also bounded from it: along the segment
+from y to x, ||DB(x)|| <= ||DB(y)|| + L2 |x - y| and |B(x)| <= |B(y)| + ||DB(y)|| |x - y|
++ L2 |x - y|^2 / 2 (Taylor with integral remainder; the operator norm of DB(y) is at most the
+Frobenius norm of the model Jacobian plus its error bound). The smaller of this and the
+distance-only bound is used. Beside a body the distance-only L1 is often ten times the true
+slope and L1^2 dominates the curvature M, so this cut M, and the number of cones, by about
+three (the 50 mm cube at 0.4 T: 29,800 cones to 9,300).
+
 grad g(y) = 2 Jac(y)^T B(y) uses a central-difference Jacobian of the field model; its error
 is bounded by (eps^2 / 6) sqrt(3) L3 (Taylor remainder), plus the error of the field values
 (relative 1e-8, divided by the step) and the model's own derivative error.
@@ -158,6 +166,9 @@ def field_and_gradient(bodies, points, allowed_error, table=None):
 
     Far pairs: analytic dipole field and Jacobian. Near pairs: exact field and a
     central-difference Jacobian with step 1e-3 of the distance to the nearest body.
+    Also returned (after the geometry): ``slope`` (n,) [T/m], a bound on the operator norm
+    of the true Jacobian DB at each point: the Frobenius norm of the model Jacobian (never
+    below its operator norm) plus the bound on its error.
     """
     table = body_table(bodies, table)
     distance = table.centre_distances(points)
@@ -187,7 +198,8 @@ def field_and_gradient(bodies, points, allowed_error, table=None):
     gradient_error = 2 * (jacobian_error * (size + error) + jacobian_norm * error)
     bad = ~np.isfinite(size) | ~np.isfinite(gradient_error) | ~np.all(np.isfinite(gradient), axis=1)
     size[bad] = np.inf
-    return size, error, gradient, gradient_error, geometry
+    slope = np.where(bad, np.inf, jacobian_norm + jacobian_error)
+    return size, error, gradient, gradient_error, geometry, slope
 
 
 # The depth is searched by bisection on a log scale between 1e-4 and 1 of the largest
@@ -209,7 +221,8 @@ def certified_depth(bodies, points, axes, radii, half_angles, threshold, allowed
     grows with s, so bisection finds nearly the largest provable s.
     """
     table = body_table(bodies, table)
-    size, error, gradient, gradient_error, geometry = field_and_gradient(bodies, points, allowed_error, table)
+    size, error, gradient, gradient_error, geometry, slope = field_and_gradient(
+        bodies, points, allowed_error, table)
     high = np.maximum(np.min(np.maximum(geometry[1], geometry[0] - geometry[3]), axis=1), 1e-9)
     high = np.minimum(high, radii)
     along = np.abs(np.sum(gradient * axes, axis=1))
@@ -229,7 +242,11 @@ def certified_depth(bodies, points, axes, radii, half_angles, threshold, allowed
             growth = 1.0 / np.maximum(1.0 - spread / nearest_far[:, None], 0.0)
             first = first + np.minimum(far_first[:, None] * growth**4, widest_first[:, None])
             second = second + np.minimum(far_second[:, None] * growth**5, widest_second[:, None])
-            largest = upper[:, None] + first * spread
+            # The Jacobian known at the axis point: ||DB(x)|| <= slope + L2 |x - y| and
+            # |B(x)| <= |B(y)| + slope rho + L2 rho^2 / 2 (Taylor, see the docstring).
+            first = np.minimum(first, slope[:, None] + second * spread)
+            largest = np.minimum(upper[:, None] + first * spread,
+                                 upper[:, None] + (slope[:, None] + 0.5 * second * spread) * spread)
             curvature = 2 * (first**2 + largest * second)
             bound = (upper**2 + across * across_reach)[:, None] + along[:, None] * shift + 0.5 * curvature * spread**2
         return np.nan_to_num(bound, nan=np.inf) <= limit

@@ -47,7 +47,7 @@ from planner.physics.zones.bounds import K, _ball_geometry, body_table, dipole_a
 _CURVED = {0: 0.0, 1: 2.0, 2: pi / 2, 3: 4.0 / 3.0}
 
 
-def _split_far(geometry, widest, ratio=10.0):
+def _split_far(geometry, widest, centre_bounds, ratio=10.0):
     """Split the (point, body) pairs by how far the body is from each ball, widest radius ``widest``.
 
     Far pairs (distance to the solid D >= ``ratio`` * widest) are summed once per point at
@@ -60,15 +60,16 @@ def _split_far(geometry, widest, ratio=10.0):
     the centre times (1 - rho / D_min)^-(n+3): a fixed value and its growth across the
     ball instead of a sum of per-body bounds for every candidate ball. Their sums at the
     widest ball are returned as well (also a bound for every smaller ball); the smaller
-    of the two is used.
+    of the two is used. ``centre_bounds``: the per-body bounds of orders 1 and 2 at the
+    ball centres (:func:`derivative_bounds` with ``per_body``, spread 0), which do not
+    depend on ``widest`` and so are computed once per set of points by the caller.
     """
     centre_distance, solid_distance, moments, reach, shift, flat, curved = geometry
     far = solid_distance >= ratio * widest[:, None]
     only_far = (centre_distance, np.where(far, solid_distance, np.inf)) + tuple(geometry[2:])
-    at_centre, at_widest = (
-        tuple(np.sum(np.where(far, per_pair, 0.0), axis=1)
-              for per_pair in derivative_bounds(only_far, radius, (1, 2), per_body=True))
-        for radius in (np.zeros(len(far)), widest))
+    at_centre = tuple(np.sum(np.where(far, per_pair, 0.0), axis=1) for per_pair in centre_bounds)
+    at_widest = tuple(np.sum(np.where(far, per_pair, 0.0), axis=1)
+                      for per_pair in derivative_bounds(only_far, widest, (1, 2), per_body=True))
     nearest_far = np.min(np.where(far, solid_distance, np.inf), axis=1)
     count = int(np.max(np.sum(~far, axis=1), initial=0))
     order = np.argsort(far, axis=1, kind="stable")[:, :count]  # near bodies first
@@ -251,10 +252,13 @@ def certified_depth(bodies, points, axes, radii, half_angles, threshold, allowed
             bound = (upper**2 + across * across_reach)[:, None] + along[:, None] * shift + 0.5 * curvature * spread**2
         return np.nan_to_num(bound, nan=np.inf) <= limit
 
-    def split(largest):
-        return _split_far(geometry, np.hypot(largest + bulge, across_reach))
+    centre_bounds = derivative_bounds(geometry, np.zeros(len(points)), (1, 2), per_body=True)
 
-    ok = holds(np.zeros((len(points), 1)), split(np.zeros(len(points))))[:, 0]
+    def split(largest):
+        return _split_far(geometry, np.hypot(largest + bulge, across_reach), centre_bounds)
+
+    # No separate check at depth 0: every candidate is proven on its own, and a point with
+    # none proven returns 0, where the walk stops (as it did on the -1 such a check gave).
     low, high_exponent = np.zeros(len(points)), np.zeros(len(points))
     low_exponent = np.full(len(points), np.log(_SMALLEST_FRACTION))
     parts = split(high)
@@ -267,4 +271,4 @@ def certified_depth(bodies, points, axes, radii, half_angles, threshold, allowed
         low = np.where(fits, candidate, low)
         low_exponent = np.where(fits, middle, low_exponent)
         high_exponent = np.where(fits, high_exponent, middle)
-    return np.where(ok, low, -1.0), size, error
+    return low, size, error

@@ -325,3 +325,28 @@ def test_certified_slabs_hold_under_brute_force(shape):
         distance = radii[i] - depth[i] * RNG.random(400)
         points = (distance[:, None] * direction)[inside_cone]
         assert np.linalg.norm(field_of_bodies([body], points), axis=1).max() < threshold
+
+
+def test_cones_beyond_their_cell_limit_lie_in_the_neighbours_cell():
+    from planner.physics.zones.keep_out import _cell_limit
+
+    bodies = [sphere([0, 0, 0], [0, 0, 1.2]), sphere([0.1, 0.05, 0], [0, 0, 1.2]),
+              sphere([-0.05, 0, 0.08], [0, 0, 1.2])]
+    axes = RNG.normal(size=(300, 3))
+    axes /= np.linalg.norm(axes, axis=1)[:, None]
+    half_angles = 0.3 * RNG.random(300)
+    limit = _cell_limit(bodies, 0, axes, half_angles)
+    assert np.isfinite(limit).sum() > 50  # some cones do leave the cell
+    # Independent check: points of each cone beyond its limit are strictly nearer another
+    # centre than their own (the Voronoi cell by direct distances).
+    for i in np.flatnonzero(np.isfinite(limit)):
+        turn = RNG.normal(size=(200, 3))
+        turn -= np.outer(turn @ axes[i], axes[i])
+        turn /= np.linalg.norm(turn, axis=1)[:, None]
+        angle = half_angles[i] * np.sqrt(RNG.random((200, 1)))
+        direction = np.cos(angle) * axes[i] + np.sin(angle) * turn
+        points = limit[i] * (1 + 1e-6 + 2 * RNG.random((200, 1))) * direction
+        own = np.linalg.norm(points, axis=1)
+        nearest = np.min(np.linalg.norm(points[:, None] - np.array([b.center for b in bodies[1:]])[None], axis=2),
+                         axis=1)
+        assert np.all(nearest < own)

@@ -98,6 +98,32 @@ def farthest_start_radius(bodies: list[MagnetBody], index: int, threshold: float
     return high
 
 
+def _cell_limit(bodies, index, axes, half_angles):
+    """Farthest radius [m] of each cone that is still in body ``index``'s cell (inf if none).
+
+    The cell lies in every half-space (x - c) . n_i <= g_i / 2 (n_i the unit vector towards
+    another centre, g_i the gap). A cone point x = c + r v has v within delta of the axis
+    u, so v . n_i >= cos(theta_i + delta) with theta_i = angle(u, n_i); where that cosine
+    is positive, r > (g_i / 2) / cos(theta_i + delta) puts every point of the cone strictly
+    closer to centre i: beyond it the cone is wholly outside the cell and has nothing to
+    prove. Starting each cone's walk there, instead of at the common start radius, saves
+    walking (and stalling) through the neighbour's cell: a wide cone aimed at a neighbour
+    otherwise stalls next to it, where the field is high but not ours to certify.
+    """
+    centre = bodies[index].center
+    limit = np.full(len(axes), np.inf)
+    for i, body in enumerate(bodies):
+        offset = body.center - centre
+        gap = float(np.linalg.norm(offset))
+        if i == index or gap == 0.0:
+            continue
+        theta = np.arccos(np.clip(axes @ (offset / gap), -1.0, 1.0))
+        cosine = np.cos(np.minimum(theta + half_angles, np.pi))
+        with np.errstate(divide="ignore"):
+            limit = np.minimum(limit, np.where(cosine > 1e-9, 0.5 * gap / cosine * (1 + 1e-9), np.inf))
+    return limit
+
+
 def _march(bodies, index, axes, half_angles, radii, threshold, allowed_error, table=None, goal=0.0):
     """Walk each cone inward from ``radii`` while a slab bound proves it below threshold.
 
@@ -248,6 +274,7 @@ def _refine(bodies, index, threshold, start, table=None):
     settled = 0.0
     for level in range(START_LEVEL, MAX_LEVEL + 1):
         axes, half_angles = cone_of_triangle(triangles)
+        starts = np.minimum(starts, _cell_limit(bodies, index, axes, half_angles))
         # The answer is at least best_hit (the cone holding that point cannot be proven
         # below it) and at least settled: walking a cone below both changes nothing.
         proven, hit = _march(bodies, index, axes, half_angles, starts, threshold, allowed_error, table,

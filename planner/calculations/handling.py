@@ -15,12 +15,11 @@ from __future__ import annotations
 from dataclasses import replace
 
 import numpy as np
-from scipy.constants import g as STANDARD_GRAVITY
 from scipy.constants import mu_0
 
 from planner import materials
 from planner.assessment import PairFigures, ProjectileFigures
-from planner.physics.bodies import MagnetBody
+from planner.physics.bodies import MagnetBody, rotation_about, rotation_from_axis
 from planner.physics.fields import field_of_bodies
 from planner.physics.forces import extent_along, plate_saturation_check
 from planner.physics.handling import (DEFAULT_FINGER_GAP, DEFAULT_HAND_FORCE, DEFAULT_STATIC_FRICTION,
@@ -110,9 +109,9 @@ def _attracting_placement(target: MagnetBody, source: MagnetBody) -> tuple[Magne
     axis = np.cross(p_target, p_source)
     sine, cosine = np.linalg.norm(axis), float(p_target @ p_source)
     if sine < 1e-12:
-        turn = np.eye(3) if cosine > 0 else _rotation_about(_any_normal(p_source), np.pi)
+        turn = np.eye(3) if cosine > 0 else rotation_about(rotation_from_axis(p_source)[:, 0], np.pi)
     else:
-        turn = _rotation_about(axis / sine, np.arctan2(sine, cosine))
+        turn = rotation_about(axis, np.arctan2(sine, cosine))
     centre = source.center + p_source * 10 * (source.bounding_radius + target.bounding_radius)
     if source.shape == "ring":
         # Over a ring's bore its field turns back and pushes; the pull is strongest over the annulus.
@@ -120,18 +119,6 @@ def _attracting_placement(target: MagnetBody, source: MagnetBody) -> tuple[Magne
     turned = replace(target, rotation=turn @ target.rotation, polarization=turn @ target.polarization,
                      center=centre)
     return turned, -p_source
-
-
-def _any_normal(vector: np.ndarray) -> np.ndarray:
-    trial = np.array([1.0, 0.0, 0.0]) if abs(vector[0]) < 0.9 else np.array([0.0, 1.0, 0.0])
-    normal = trial - (trial @ vector) * vector
-    return normal / np.linalg.norm(normal)
-
-
-def _rotation_about(axis: np.ndarray, angle: float) -> np.ndarray:
-    x, y, z = axis
-    k = np.array([[0, -z, y], [z, 0, -x], [-y, x, 0]])
-    return np.eye(3) + np.sin(angle) * k + (1 - np.cos(angle)) * (k @ k)
 
 
 def pair_figures(setup: Setup) -> list[PairFigures]:
@@ -251,5 +238,3 @@ def steel_lift_gradient_distances(setup: Setup) -> dict[str, float]:
                                                  search_limit=max(0.5, 40 * body.bounding_radius))
     return distances
 
-
-del STANDARD_GRAVITY

@@ -19,6 +19,8 @@ from scipy.constants import g as STANDARD_GRAVITY
 from planner import materials
 from planner.assessment import InductionFigures
 from planner.physics import eddy
+from planner.physics.bodies import MagnetBody
+from planner.physics.forces import extent_along
 from planner.physics.induction import (Winding, alternating_induced_emf, axial_magnet, body_flux_linkage,
                                        circuit_current, coil_mutual_inductance, coupling_coefficient,
                                        coupling_table, generator_figures, passage_time_series,
@@ -78,11 +80,10 @@ def pass_through_coil(setup: Setup, activity: model.PassThroughCoil) -> Inductio
     total = resistance + circuit["external_ohm"]
     inductance = float(winding_inductance(winding))
     warnings = []
-    axis = np.asarray(coil.axis)
     try:
         if activity.offset != 0:
             raise ValueError("beside the coil")
-        magnet_on_axis = axial_magnet(body, axis)
+        magnet_on_axis = axial_magnet(body, np.asarray(coil.axis))
         t, emf, current = passage_time_series(magnet_on_axis, winding, speed=activity.speed,
                                               drop_height=activity.drop_height, resistance=total,
                                               inductance=inductance if np.isfinite(total) else 0.0)
@@ -106,7 +107,6 @@ def pass_through_coil(setup: Setup, activity: model.PassThroughCoil) -> Inductio
             warnings.append(f"the meter would be driven to {values['peak_to_full_scale']:.1f} times its full scale")
     if summary.inductance_matters:
         warnings.append("the coil's inductance shapes the current pulse (included)")
-    del magnet
     return InductionFigures(activity.id, activity.kind, values, warnings)
 
 
@@ -156,19 +156,16 @@ def swing_over_sheet(setup: Setup, activity: model.SwingOverSheet) -> InductionF
     magnet = next(m for m in setup.magnets if m.id == activity.magnet)
     body = body_of(magnet)
     vertical = np.array([0.0, 0.0, 1.0])
-    centre_height = activity.height + float(body.bounding_radius if body.shape == "block" else 0) \
-        if body.shape == "block" else activity.height + (body.height / 2 if body.shape in ("cylinder", "ring") else body.diameter / 2)
     sigma = conductivity_of(sheet)
     bob = activity.bob_mass or mass_of(magnet)
     warnings = []
     if body.shape == "block":
         # Closed forms need a round magnet: an equal-volume cylinder of the block's height stands in.
-        from planner.physics.bodies import MagnetBody
         height = float(body.size @ np.abs(body.rotation.T @ vertical))
         diameter = float(np.sqrt(4 * body.volume / (np.pi * height)))
         body = MagnetBody("cylinder", body.center, np.eye(3), body.polarization, diameter=diameter, height=height)
-        centre_height = activity.height + height / 2
         warnings.append("the block is modelled as a round magnet of the same volume and height")
+    centre_height = activity.height + extent_along(body, -vertical)  # the gap is under the magnet's lowest face
     damping = eddy.sheet_damping(axial_magnet(body, vertical), bob, centre_height, sigma, sheet.thickness,
                                  activity.speed)
     values = {

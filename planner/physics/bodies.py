@@ -128,6 +128,19 @@ def rotation_from_axis(axis) -> np.ndarray:
     return np.column_stack([x, y, z])
 
 
+def rotation_about(axis, angle: float) -> np.ndarray:
+    """Rotation matrix of a right-handed turn by ``angle`` [rad] about ``axis`` (Rodrigues' formula).
+
+    R = I + sin(a) K + (1 - cos(a)) K^2 with K the cross-product matrix of the unit axis.
+
+    >>> bool(np.allclose(rotation_about([0, 0, 1], np.pi / 2) @ [1, 0, 0], [0, 1, 0]))
+    True
+    """
+    x, y, z = np.asarray(axis, dtype=float) / np.linalg.norm(axis)
+    k = np.array([[0, -z, y], [z, 0, -x], [-y, x, 0]])
+    return np.eye(3) + np.sin(angle) * k + (1 - np.cos(angle)) * (k @ k)
+
+
 def inside(body: MagnetBody, points, margin: float = 0.0) -> np.ndarray:
     """True for points strictly inside ``body`` shrunk by ``margin`` [m] on every face.
 

@@ -7,7 +7,7 @@ from __future__ import annotations
 import numpy as np
 
 from planner import materials
-from planner.physics.bodies import MagnetBody, rotation_from_axis
+from planner.physics.bodies import MagnetBody, rotation_about, rotation_from_axis
 from planner.setup import model
 
 #: Density assumed when a magnet gives only a remanence and no mass (sintered NdFeB, trade tables).
@@ -35,18 +35,11 @@ def rotation_of(magnet) -> np.ndarray:
     if isinstance(magnet, model.Block):
         rotation = np.eye(3)
         for step in magnet.rotation:
-            rotation = _axis_angle(np.asarray(step.about), step.angle) @ rotation
+            rotation = rotation_about(step.about, step.angle) @ rotation
         return rotation
     if isinstance(magnet, (model.Cylinder, model.Ring)):
         return rotation_from_axis(magnet.axis if magnet.axis is not None else magnet.magnetization)
     return np.eye(3)
-
-
-def _axis_angle(axis: np.ndarray, angle: float) -> np.ndarray:
-    """Rodrigues' rotation matrix for a turn of ``angle`` [rad] about unit ``axis``."""
-    x, y, z = axis / np.linalg.norm(axis)
-    k = np.array([[0, -z, y], [z, 0, -x], [-y, x, 0]])
-    return np.eye(3) + np.sin(angle) * k + (1 - np.cos(angle)) * (k @ k)
 
 
 def body_of(magnet) -> MagnetBody:

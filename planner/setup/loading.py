@@ -253,11 +253,9 @@ def _message_for(kind: str, item: dict, loc: tuple, data: Any, model) -> str | N
             what = f" for {parent.get('shape') or parent.get('kind')}"
         return f"is required{what}"
     if kind == "extra_forbidden":
-        parent = _value_at(data, loc[:-1])
         known = _known_keys(model, loc[:-1], data)
         close = difflib.get_close_matches(str(loc[-1]), known, n=1, cutoff=0.6)
         hint = f"; did you mean `{close[0]}`?" if close else (f"; known keys here: {', '.join(sorted(known))}" if known else "")
-        del parent
         return f"is not a known key{hint}"
     if kind == "union_tag_invalid":
         expected = item.get("ctx", {}).get("expected_tags", "")

@@ -26,7 +26,7 @@ from scipy.constants import g as STANDARD_GRAVITY
 from scipy.integrate import quad
 from scipy.optimize import minimize_scalar
 
-from planner.physics.bodies import MagnetBody, rotation_from_axis
+from planner.physics.bodies import MagnetBody, rotation_about, rotation_from_axis
 from planner.physics.forces import (energy_between, extent_along, force_and_torque,
                                     force_between, place_at_gap,
                                     steel_surface_force_and_torque)
@@ -286,10 +286,9 @@ def flip_torque(target: MagnetBody, source: MagnetBody, approach, gap: float,
     if np.linalg.norm(axis) < 1e-9 * np.linalg.norm(target.polarization):
         axis = rotation_from_axis(u)[:, 0]
     axis = axis / np.linalg.norm(axis)
-    cross = np.array([[0, -axis[2], axis[1]], [axis[2], 0, -axis[0]], [-axis[1], axis[0], 0]])
 
     def twist(theta):
-        turn = np.eye(3) + np.sin(theta) * cross + (1 - np.cos(theta)) * cross @ cross
+        turn = rotation_about(axis, theta)
         turned = replace(target, rotation=turn @ target.rotation,
                          polarization=turn @ target.polarization)
         placed = place_at_gap(turned, source, u, gap)

@@ -127,15 +127,9 @@ def new(out: Path | None, force: bool) -> None:
 
 def _register_commands() -> None:
     """Commands that live in their own modules, to keep this file a list of thin verbs."""
-    import importlib
+    from planner import cli_assess, cli_field, cli_report
 
-    for module_name in ("planner.cli_field", "planner.cli_assess", "planner.cli_report"):
-        try:
-            module = importlib.import_module(module_name)
-        except ModuleNotFoundError as error:
-            if error.name != module_name:
-                raise
-            continue  # a verb still being written is simply absent
+    for module in (cli_field, cli_assess, cli_report):
         for command in module.COMMANDS:
             main.add_command(command)
 

@@ -9,6 +9,7 @@ from __future__ import annotations
 
 import math
 
+from reports.field_map import KeepOutLine, MapScene, Shape
 from reports.pdf.formatting import quantity
 
 _PLANE = {"plan": (0, 1), "elevation": (0, 2)}
@@ -22,38 +23,38 @@ def _axis_index(direction) -> int | None:
     return None
 
 
-def _round_part(shape_type, kind: str, label: str, centre, radius: float, length: float, axis, view: str):
+def _round_part(kind: str, label: str, centre, radius: float, length: float, axis, view: str):
     """Outline of a cylinder-like part (magnet disc, ring, coil) seen in one view."""
     first, second = _PLANE[view]
     c = (centre[first], centre[second])
     along = _axis_index(axis)
     if along is None:
-        return shape_type(kind=kind, form="circle", label=label, centre=c, radius=math.hypot(radius, length / 2))
+        return Shape(kind=kind, form="circle", label=label, centre=c, radius=math.hypot(radius, length / 2))
     if along not in (first, second):           # axis points out of the drawing plane: a circle
-        return shape_type(kind=kind, form="circle", label=label, centre=c, radius=radius)
+        return Shape(kind=kind, form="circle", label=label, centre=c, radius=radius)
     half = [radius, radius]
     half[0 if along == first else 1] = length / 2
-    return shape_type(kind=kind, form="rectangle", label=label, corner_low=(c[0] - half[0], c[1] - half[1]),
+    return Shape(kind=kind, form="rectangle", label=label, corner_low=(c[0] - half[0], c[1] - half[1]),
                       corner_high=(c[0] + half[0], c[1] + half[1]))
 
 
-def _magnet_shape(shape_type, magnet, view: str):
+def _magnet_shape(magnet, view: str):
     first, second = _PLANE[view]
     centre = magnet.at
     if magnet.shape == "sphere":
-        return shape_type(kind="magnet", form="circle", label=magnet.id, centre=(centre[first], centre[second]),
+        return Shape(kind="magnet", form="circle", label=magnet.id, centre=(centre[first], centre[second]),
                           radius=magnet.diameter / 2)
     if magnet.shape == "block":
         size = magnet.size
         if magnet.rotation:
             radius = math.sqrt(sum(s * s for s in size)) / 2
-            return shape_type(kind="magnet", form="circle", label=magnet.id,
+            return Shape(kind="magnet", form="circle", label=magnet.id,
                               centre=(centre[first], centre[second]), radius=radius)
-        return shape_type(kind="magnet", form="rectangle", label=magnet.id,
+        return Shape(kind="magnet", form="rectangle", label=magnet.id,
                           corner_low=(centre[first] - size[first] / 2, centre[second] - size[second] / 2),
                           corner_high=(centre[first] + size[first] / 2, centre[second] + size[second] / 2))
     axis = magnet.axis or magnet.magnetization
-    return _round_part(shape_type, "magnet", magnet.id, centre, magnet.diameter / 2, magnet.height, axis, view)
+    return _round_part("magnet", magnet.id, centre, magnet.diameter / 2, magnet.height, axis, view)
 
 
 def _clip_rectangle(shape, low, high):
@@ -91,11 +92,7 @@ def _close_up(scene, contours):
 
 def scenes_from_setup(setup, assessment) -> dict:
     """{view: [MapScene, ...]} for the views that have contour lines: the whole setup, then a
-    close-up of the keep-out lines when they are small on it; {} without ``reports.field_map``."""
-    try:
-        from reports.field_map import KeepOutLine, MapScene, Shape
-    except ImportError:
-        return {}
+    close-up of the keep-out lines when they are small on it."""
     scenes = {}
     for view in ("plan", "elevation"):
         contours = [c for c in getattr(assessment, "contours", []) if c.view == view and c.lines]
@@ -110,8 +107,8 @@ def scenes_from_setup(setup, assessment) -> dict:
                                 corner_high=(max(low[first], high[first]), max(low[second], high[second]))))
         for coil in setup.coils:
             outer = coil.outer_diameter or coil.inner_diameter
-            shapes.append(_round_part(Shape, "coil", coil.id, coil.at, outer / 2, coil.length, coil.axis, view))
-        shapes += [_magnet_shape(Shape, magnet, view) for magnet in setup.magnets]
+            shapes.append(_round_part("coil", coil.id, coil.at, outer / 2, coil.length, coil.axis, view))
+        shapes += [_magnet_shape(magnet, view) for magnet in setup.magnets]
         lines = []
         for contour in contours:
             reach = [k.distance_m for k in getattr(assessment, "keep_out", [])

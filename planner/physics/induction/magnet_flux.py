@@ -21,6 +21,8 @@ import numpy as np
 from scipy.constants import mu_0
 from scipy.special import roots_legendre
 
+from planner.physics.bodies import rotation_from_axis
+
 from .sheets import sheet_flux, sheet_radial_field
 
 _ALIGNMENT_TOLERANCE = 1e-6
@@ -213,12 +215,7 @@ def flux_from_field(field, center, normal, radius, radial_nodes=16, angular_node
     ----------
     Abramowitz & Stegun, 25.4.29-30 (1964) (Gauss-Legendre and periodic trapezoid rules).
     """
-    normal = np.asarray(normal, dtype=float)
-    normal = normal / np.linalg.norm(normal)
-    helper = np.array([1.0, 0.0, 0.0]) if abs(normal[0]) < 0.9 else np.array([0.0, 1.0, 0.0])
-    first = np.cross(normal, helper)
-    first /= np.linalg.norm(first)
-    second = np.cross(normal, first)
+    first, second, normal = rotation_from_axis(normal).T  # an orthonormal frame with the disc's normal
     x, w = roots_legendre(radial_nodes)
     edges = np.unique(np.clip([0.0, radius, *radial_breaks], 0.0, radius))
     lo, hi = edges[:-1, None], edges[1:, None]

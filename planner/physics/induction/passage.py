@@ -24,6 +24,8 @@ from scipy.constants import g as standard_gravity
 from scipy.signal import lfilter
 from scipy.special import roots_legendre
 
+from planner.physics.bodies import rotation_from_axis
+
 from .coils import Winding, winding_inductance
 from .magnet_flux import AxialMagnet, loop_flux
 
@@ -299,12 +301,7 @@ def body_flux_linkage(body, centers, winding: Winding, coil_center, coil_axis, a
     """
     from planner.physics.fields import field_of_body
 
-    axis = np.asarray(coil_axis, dtype=float)
-    axis = axis / np.linalg.norm(axis)
-    helper = np.array([1.0, 0.0, 0.0]) if abs(axis[0]) < 0.9 else np.array([0.0, 1.0, 0.0])
-    first = np.cross(axis, helper)
-    first /= np.linalg.norm(first)
-    second = np.cross(axis, first)
+    first, second, axis = rotation_from_axis(coil_axis).T  # an orthonormal frame with the coil's axis
     radii, turns = winding.radial_nodes()
     x_axial, w_axial = roots_legendre(axial_nodes)
     x_radial, w_radial = roots_legendre(radial_nodes)

@@ -19,14 +19,13 @@ charge density M . n) and sec. 5.7 (energy of a magnetization in an external fie
 """
 from __future__ import annotations
 
-from functools import lru_cache
-
 import numpy as np
 from scipy.constants import mu_0
 
 from planner.physics.bodies import MagnetBody
-from planner.physics.forces.quadrature import (_box_arrays, adaptive_box_integral, box_nodes,
-                                               box_sums)
+from planner.physics.forces.face_rules import (KRONROD_GAUSS_POINTS, field_in_frame_of,
+                                               whole_face_rule)
+from planner.physics.forces.quadrature import adaptive_box_integral
 
 #: Quadrature points are set this fraction of the target size inside the target, so that
 #: at contact they see the source field from the target's side of the shared surface.
@@ -41,20 +40,25 @@ def _field_function(source):
     return lambda points: field_of_body(source, points)
 
 
-def surface_charge_patches(body: MagnetBody):
+def surface_charge_patches(body: MagnetBody, whole_faces: bool = False):
     """Faces of ``body`` as parameter boxes carrying their magnetic surface charge.
 
     Parameters
     ----------
     body : MagnetBody
+    whole_faces : bool
+        Return one entry per face, with the index of its periodic parameter, instead of the
+        initial boxes of the adaptive quadrature.
 
     Returns
     -------
     maps : list of callables
         ``maps[i](u)`` -> (points in the body frame (m, 3) [m], charge per unit parameter
         measure (m,) [A m^-1 times the face Jacobian]).
-    boxes : list of (map index, low, high)
-        Initial parameter boxes (2-D), with angles split into quarter turns.
+    boxes : list of (map index, low, high), or of (map index, low, high, periodic)
+        Initial parameter boxes (2-D), with angles split into quarter turns; or, with
+        ``whole_faces``, each face whole, ``periodic`` being the index of its angle parameter
+        that runs over a full turn (None for a block's face).
 
     Notes
     -----
@@ -71,13 +75,11 @@ def surface_charge_patches(body: MagnetBody):
     """
     J = body.polarization_body / mu_0
     offset = INWARD_OFFSET * body.bounding_radius
-    maps, boxes = [], []
-    angles = [(k * np.pi / 2, (k + 1) * np.pi / 2) for k in range(4)]  # quarter turns
+    maps, faces = [], []
 
-    def add(map_function, ranges_list):
+    def add(map_function, low, high, periodic=None):
         maps.append(map_function)
-        for low, high in ranges_list:
-            boxes.append((len(maps) - 1, low, high))
+        faces.append((len(maps) - 1, list(low), list(high), periodic))
 
     if body.shape in ("cylinder", "ring"):
         outer = body.diameter / 2
@@ -89,7 +91,7 @@ def surface_charge_patches(body: MagnetBody):
                     r, phi = u[:, 0], u[:, 1]
                     z = np.full_like(r, side * (half - offset))
                     return np.stack([r * np.cos(phi), r * np.sin(phi), z], axis=1), side * J[2] * r
-                add(end_face, [([inner, a], [outer, b]) for a, b in angles])
+                add(end_face, [inner, 0.0], [outer, TWO_PI], periodic=1)
         if J[0] != 0.0 or J[1] != 0.0:
             for radius, sign in ((outer, 1.0), (inner, -1.0)):
                 if radius == 0.0:
@@ -100,7 +102,7 @@ def surface_charge_patches(body: MagnetBody):
                     rho = radius - sign * offset
                     charge = sign * (J[0] * c + J[1] * s) * radius
                     return np.stack([rho * c, rho * s, z], axis=1), charge
-                add(curved_face, [([a, -half], [b, half]) for a, b in angles])
+                add(curved_face, [0.0, -half], [TWO_PI, half], periodic=0)
     elif body.shape == "block":
         half_size = body.size / 2
         for axis in range(3):
@@ -114,7 +116,7 @@ def surface_charge_patches(body: MagnetBody):
                     points[:, others[1]] = u[:, 1]
                     points[:, axis] = side * (half_size[axis] - offset)
                     return points, np.full(len(u), side * J[axis])
-                add(block_face, [(-half_size[others], half_size[others])])
+                add(block_face, -half_size[others], half_size[others])
     else:  # sphere
         radius = body.diameter / 2
 
@@ -124,9 +126,22 @@ def surface_charge_patches(body: MagnetBody):
                                np.cos(theta)], axis=1)
             charge = (normal @ J) * radius**2 * np.sin(theta)
             return (radius - offset) * normal, charge
-        add(sphere_face, [([t0, a], [t1, b]) for a, b in angles
-                          for t0, t1 in ((0.0, np.pi / 2), (np.pi / 2, np.pi))])
-    return maps, boxes
+        add(sphere_face, [0.0, 0.0], [np.pi, TWO_PI], periodic=1)
+    if whole_faces:
+        return maps, faces
+    return maps, [box for face in faces for box in _initial_boxes(*face)]
+
+
+def _initial_boxes(index, low, high, periodic):
+    """A face cut into the adaptive quadrature's first boxes: quarter turns of its angle."""
+    if periodic is None:
+        return [(index, low, high)]
+    boxes = []
+    for k in range(4):
+        box_low, box_high = list(low), list(high)
+        box_low[periodic], box_high[periodic] = k * np.pi / 2, (k + 1) * np.pi / 2
+        boxes.append((index, box_low, box_high))
+    return boxes
 
 
 def volume_patches(body: MagnetBody):
@@ -209,36 +224,48 @@ def force_and_torque_by_charges(target: MagnetBody, source: MagnetBody, rtol: fl
     >>> bool(np.allclose(force, 0.0, atol=1e-12)), bool(np.allclose(torque, 0.0, atol=1e-12))
     (True, True)
     """
-    field = field or _field_function(source)
-    maps, boxes, first_nodes = _body_frame_rule(*_rule_key(target))
-    if not boxes:
+    rule = whole_face_rule(*_rule_key(target))
+    if rule is None:
         return np.zeros(3), np.zeros(3)
-    rotation, center = target.rotation, target.center
-    length = target.bounding_radius
+    local_field = field_in_frame_of(target, source, field)
+    length = rule.length
 
-    def integrand(points, charge):
-        B = np.asarray(field(points), dtype=float).reshape(-1, 3)
-        lever = points - center
-        values = np.empty((len(points), 6))
-        values[:, :3] = charge[:, None] * B
-        scaled = charge / length
-        values[:, 3] = scaled * (lever[:, 1] * B[:, 2] - lever[:, 2] * B[:, 1])
-        values[:, 4] = scaled * (lever[:, 2] * B[:, 0] - lever[:, 0] * B[:, 2])
-        values[:, 5] = scaled * (lever[:, 0] * B[:, 1] - lever[:, 1] * B[:, 0])
-        return values
+    # first pass: the whole-face rule on every face, in one field call
+    sums = (rule.moments @ local_field(rule.points).ravel()).reshape(len(rule.faces),
+                                                                     rule.columns, 6)
+    value = sums[:, 0]
+    error = _size(sums[:, :1] - sums[:, 1:]).sum(axis=1)
+    total = value.sum(axis=0)
+    bound = max(rtol * float(_size(total)), _floor(target, source))
+    if error.sum() > bound:
+        # refine the faces with the largest errors, enough to leave at most half the bound
+        # on the others, by adaptive subdivision with the rest of the budget
+        order = np.argsort(error)[::-1]
+        excess = error.sum() - bound
+        count = int(np.searchsorted(np.cumsum(error[order]), excess + bound / 2)) + 1
+        refine = order[:count]
+        budget = bound - (error.sum() - error[refine].sum())
 
-    def size(values):
-        return (np.sqrt((values[..., :3] ** 2).sum(axis=-1))
-                + np.sqrt((values[..., 3:] ** 2).sum(axis=-1)))
+        def integrand(points, charge):
+            """sigma B and sigma (r x B) / R at target-frame points, times the weight."""
+            B = local_field(points)
+            values = np.empty((len(points), 6))
+            values[:, :3] = B
+            values[:, 3:] = np.cross(points, B) / length
+            return values * charge[:, None]
 
-    # the initial boxes' nodes are kept in the body frame: one rotation and one field call
-    local_points, weights, n_low = first_nodes
-    values = integrand(center + local_points @ rotation.T, weights)
-    first_pass = box_sums(values.reshape(len(boxes), -1, 6), n_low, size)
-    global_maps = [_to_global(m, rotation, center) for m in maps]
-    total = adaptive_box_integral(global_maps, boxes, integrand, size, rtol=rtol / 4,
-                                  absolute_floor=_floor(target, source), first_pass=first_pass)
-    return total[:3], total[3:] * length
+        boxes = [box for f in refine for box in _initial_boxes(*rule.faces[f])]
+        refined = adaptive_box_integral(rule.maps, boxes, integrand, _size, rtol=0.0,
+                                        orders=KRONROD_GAUSS_POINTS, absolute_floor=budget)
+        total = total - value[refine].sum(axis=0) + refined
+    rotation = target.rotation
+    return rotation @ total[:3], rotation @ total[3:] * length
+
+
+def _size(values):
+    """|F| + |T| / R of (..., 6) arrays holding F and T / R [N]."""
+    return (np.sqrt((values[..., :3] ** 2).sum(axis=-1))
+            + np.sqrt((values[..., 3:] ** 2).sum(axis=-1)))
 
 
 def _rule_key(body: MagnetBody):
@@ -251,21 +278,6 @@ def _rule_key(body: MagnetBody):
     J = np.where(np.abs(J) > 1e-12 * np.abs(J).max(), J, 0.0)
     return (body.shape, float(body.diameter), float(body.height), float(body.inner_diameter),
             tuple(float(v) for v in body.size), tuple(float(v) for v in J))
-
-
-@lru_cache(maxsize=256)
-def _body_frame_rule(shape, diameter, height, inner_diameter, size, polarization):
-    """Faces of a body at the origin and the Gauss nodes of their initial boxes (cached)."""
-    body = MagnetBody(shape, np.zeros(3), np.eye(3), polarization, diameter=diameter,
-                      height=height, inner_diameter=inner_diameter, size=size)
-    maps, boxes = surface_charge_patches(body)
-    if not boxes:
-        return maps, boxes, None
-    points, weights, n_low = box_nodes(maps, *_box_arrays(boxes))
-    points, weights = points.reshape(-1, 3), weights.ravel()
-    points.flags.writeable = False
-    weights.flags.writeable = False
-    return maps, boxes, (points, weights, n_low)
 
 
 def interaction_energy(target: MagnetBody, source: MagnetBody, rtol: float = 1e-6,

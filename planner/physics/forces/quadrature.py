@@ -5,8 +5,10 @@ the faces (or the volume) of the target body. Each face is a box in its own para
 (for example radius and angle on an end disc). This module integrates such integrands to a
 requested relative accuracy:
 
-1. every box is integrated with two successive Gauss-Legendre orders; the difference of the
-   two results is the error estimate of the higher order;
+1. every box is integrated with two rules, either two successive Gauss-Legendre orders or a
+   Gauss rule and its Kronrod extension, which reuses the Gauss nodes; the difference of the
+   two results is the error estimate of the better one (in fact of the lower one, so it is
+   an overestimate wherever the rules converge);
 2. while the summed error estimate exceeds ``rtol`` times the size of the total, the boxes
    carrying most of the error are bisected into 2^d children. The error sits where a face
    nearly touches the source, so the subdivision closes in on the closest point there and
@@ -14,11 +16,18 @@ requested relative accuracy:
 
 All field evaluations of one round go into a single vectorised call.
 
+The nested (Gauss-Kronrod) rules also tell which parameter carries the error: the
+Kronrod tensor rule is compared with the rules that drop to Gauss along one parameter at a
+time, and a box is bisected only along the parameters whose estimate is large.
+
 References
 ----------
 P. J. Davis and P. Rabinowitz, *Methods of Numerical Integration*, 2nd ed., Academic Press
 (1984), ch. 5-6 (Gauss-Legendre rules, adaptive subdivision with error estimates from two
 rules).
+A. S. Kronrod, *Nodes and Weights of Quadrature Formulas*, Consultants Bureau (1965);
+D. P. Laurie, "Calculation of Gauss-Kronrod quadrature rules", Math. Comp. 66,
+1133-1145 (1997).
 """
 from __future__ import annotations
 
@@ -27,49 +36,10 @@ from typing import Callable, Sequence
 
 import numpy as np
 
+from planner.physics.forces.quadrature_rules import (nested_tensor_rule,  # noqa: F401
+                                                     tensor_gauss_rule)
+
 DEFAULT_ORDERS = (4, 6)
-
-
-@lru_cache(maxsize=None)
-def tensor_gauss_rule(order: int, dimension: int) -> tuple[np.ndarray, np.ndarray]:
-    """Tensor Gauss-Legendre rule on the unit cube [0, 1]^dimension.
-
-    Parameters
-    ----------
-    order : int
-        Points per dimension [-].
-    dimension : int
-        1, 2 or 3 [-].
-
-    Returns
-    -------
-    nodes : ndarray (order**dimension, dimension)
-        Node coordinates in [0, 1] [-].
-    weights : ndarray (order**dimension,)
-        Weights summing to 1 [-].
-
-    Notes
-    -----
-    Exact for polynomials of degree 2*order - 1 in each variable.
-
-    References
-    ----------
-    Davis & Rabinowitz, Methods of Numerical Integration (1984), sec. 2.7.
-
-    Examples
-    --------
-    >>> nodes, weights = tensor_gauss_rule(3, 2)
-    >>> round(float(weights.sum()), 12), nodes.shape
-    (1.0, (9, 2))
-    """
-    x, w = np.polynomial.legendre.leggauss(order)
-    x = (x + 1.0) / 2.0
-    w = w / 2.0
-    grids = np.meshgrid(*([x] * dimension), indexing="ij")
-    weight_grids = np.meshgrid(*([w] * dimension), indexing="ij")
-    nodes = np.stack([g.ravel() for g in grids], axis=1)
-    weights = np.prod(np.stack([g.ravel() for g in weight_grids], axis=1), axis=1)
-    return nodes, weights
 
 
 def adaptive_box_integral(
@@ -78,7 +48,7 @@ def adaptive_box_integral(
     integrand: Callable[[np.ndarray, np.ndarray], np.ndarray],
     error_size: Callable[[np.ndarray], np.ndarray],
     rtol: float = 1e-3,
-    orders: tuple[int, int] = DEFAULT_ORDERS,
+    orders: tuple[int, int] | int = DEFAULT_ORDERS,
     max_rounds: int = 40,
     max_boxes: int = 200_000,
     absolute_floor: float = 0.0,
@@ -94,34 +64,38 @@ def adaptive_box_integral(
     boxes : sequence of (map index, low (d,), high (d,))
         Initial boxes in parameter space.
     integrand : callable
-        ``integrand(points (m, 3), measure (m,)) -> values (m, k)``; evaluated on all the
-        points of one round at once.
+        ``integrand(points (m, 3), weight (m,)) -> values (m, k)``, linear in ``weight``
+        (the measure times the box volume); evaluated on all the points of one round at
+        once.
     error_size : callable
         ``error_size(values (..., k)) -> (...)``: a norm used both for the error estimate
         and for the size of the total.
     rtol : float
         Requested relative accuracy of the total [-].
-    orders : (int, int)
-        The two successive Gauss-Legendre orders per dimension.
+    orders : (int, int) or int
+        Two successive Gauss-Legendre orders per dimension, or n for the n-point Gauss rule
+        nested in its (2n + 1)-point Kronrod extension (:func:`box_rule`).
     max_rounds, max_boxes : int
         Safety limits; refinement stops when either is reached.
     absolute_floor : float
-        Errors below this absolute size are accepted (for totals that vanish by symmetry).
-    first_pass : (ndarray (b, k), ndarray (b,)), optional
-        The higher-order values and error sizes of the initial boxes, if already known
-        (see :func:`box_nodes` and :func:`box_sums`); saves their evaluation.
+        Errors below this absolute size are accepted (for totals that vanish by symmetry,
+        or when the caller sets an absolute budget with ``rtol = 0``).
+    first_pass : (ndarray (b, k), ndarray (b, p)), optional
+        The values and error parts of the initial boxes, if already known (see
+        :func:`box_nodes` and :func:`box_sums`); saves their evaluation.
 
     Returns
     -------
     ndarray (k,)
-        The integral, from the higher order on every final box.
+        The integral, from the better rule on every final box.
 
     Notes
     -----
-    Stops when the sum of |Q_high - Q_low| over all boxes is at most
-    ``rtol * size(total)``; in each round the boxes holding the largest errors, enough
-    to bring the sum under half that bound if they were perfect, are bisected in every
-    parameter.
+    Stops when the summed error estimate over all boxes is at most
+    ``max(rtol * size(total), absolute_floor)``; in each round the boxes holding the largest
+    errors, enough to bring the sum under half that bound if they were perfect, are
+    bisected: in every parameter for two Gauss orders, and for the nested rules only along
+    the parameters whose own estimate is at least a tenth of the box's largest.
 
     References
     ----------
@@ -138,23 +112,30 @@ def adaptive_box_integral(
     face, low, high = _box_arrays(boxes)
 
     def evaluate(face, low, high):
-        points, weights, n_low = box_nodes(maps, face, low, high, orders)
-        values = integrand(points.reshape(-1, 3), weights.ravel())
-        return box_sums(values.reshape(len(face), -1, values.shape[-1]), n_low, error_size)
+        points, weight, rule_weights = box_nodes(maps, face, low, high, orders)
+        values = integrand(points.reshape(-1, 3), weight.ravel())
+        return box_sums(values.reshape(len(face), -1, values.shape[-1]), rule_weights,
+                        error_size)
 
     value, error = evaluate(face, low, high) if first_pass is None else first_pass
     for _ in range(max_rounds):
         total = value.sum(axis=0)
         bound = max(rtol * float(error_size(total)), absolute_floor)
-        excess = error.sum() - bound
+        box_error = error.sum(axis=1)
+        excess = box_error.sum() - bound
         if excess <= 0 or len(face) >= max_boxes:
             break
-        order = np.argsort(error)[::-1]
-        needed = np.searchsorted(np.cumsum(error[order]), excess + bound / 2) + 1
+        order = np.argsort(box_error)[::-1]
+        needed = np.searchsorted(np.cumsum(box_error[order]), excess + bound / 2) + 1
         split = order[: max(1, needed)]
         keep = np.ones(len(face), dtype=bool)
         keep[split] = False
-        child_face, child_low, child_high = _bisect(face[split], low[split], high[split])
+        if error.shape[1] == 1:
+            along = np.ones((len(split), low.shape[1]), dtype=bool)
+        else:
+            parts = error[split]
+            along = parts >= SPLIT_FRACTION * parts.max(axis=1, keepdims=True)
+        child_face, child_low, child_high = _bisect(face[split], low[split], high[split], along)
         child_value, child_error = evaluate(child_face, child_low, child_high)
         face = np.concatenate([face[keep], child_face])
         low = np.concatenate([low[keep], child_low])
@@ -164,12 +145,52 @@ def adaptive_box_integral(
     return value.sum(axis=0)
 
 
+#: A nested-rule box is bisected along the parameters whose error estimate is at least
+#: this fraction of its largest one.
+SPLIT_FRACTION = 0.1
+
+
 @lru_cache(maxsize=None)
-def _paired_rule(orders: tuple[int, int], dimension: int):
-    """Nodes and weights of two Gauss orders side by side, and the count of the lower."""
+def box_rule(orders: tuple[int, int] | int, dimension: int) -> tuple[np.ndarray, np.ndarray]:
+    """Nodes on the unit cube and the weight columns of a box rule with its error estimate.
+
+    Parameters
+    ----------
+    orders : (int, int) or int
+        Two Gauss-Legendre orders (the nodes of both, side by side), or n for the nested
+        Gauss-Kronrod rule with 2n + 1 nodes per parameter.
+    dimension : int
+        Number of parameters d [-].
+
+    Returns
+    -------
+    nodes : ndarray (m, d)
+    weights : ndarray (m, c)
+        Column 0 the better rule. Two orders: column 1 the lower order (c = 2). Nested:
+        column 1 + j the rule lowered to Gauss along parameter j (c = 1 + d).
+
+    Notes
+    -----
+    The error parts of a box are ``error_size(Q_0 - Q_j)`` for j = 1 .. c - 1.
+
+    References
+    ----------
+    Davis & Rabinowitz (1984), sec. 5.6 and 6.2; Laurie, Math. Comp. 66, 1133 (1997).
+
+    Examples
+    --------
+    >>> nodes, weights = box_rule(3, 2)
+    >>> nodes.shape, weights.shape
+    ((49, 2), (49, 3))
+    """
+    if np.ndim(orders) == 0:
+        return nested_tensor_rule((("kronrod", int(orders)),) * dimension)
     rule_low, rule_high = (tensor_gauss_rule(order, dimension) for order in orders)
-    return (np.concatenate([rule_low[0], rule_high[0]]),
-            np.concatenate([rule_low[1], rule_high[1]]), len(rule_low[1]))
+    n_low, n_high = len(rule_low[1]), len(rule_high[1])
+    weights = np.zeros((n_low + n_high, 2))
+    weights[n_low:, 0] = rule_high[1]
+    weights[:n_low, 1] = rule_low[1]
+    return np.concatenate([rule_low[0], rule_high[0]]), weights
 
 
 def _box_arrays(boxes):
@@ -180,8 +201,8 @@ def _box_arrays(boxes):
     return face, low, high
 
 
-def box_nodes(maps, face, low, high, orders: tuple[int, int] = DEFAULT_ORDERS):
-    """Points and weights of both Gauss orders on every box.
+def box_nodes(maps, face, low, high, orders: tuple[int, int] | int = DEFAULT_ORDERS):
+    """Points and weights of a box rule on every box.
 
     Parameters
     ----------
@@ -191,31 +212,31 @@ def box_nodes(maps, face, low, high, orders: tuple[int, int] = DEFAULT_ORDERS):
         Map index of each box.
     low, high : arrays (b, d)
         Box corners in parameter space.
-    orders : (int, int)
-        The two Gauss-Legendre orders per dimension.
+    orders : (int, int) or int
+        As in :func:`box_rule`.
 
     Returns
     -------
-    points : ndarray (b, n_low + n_high, 3)
-        Mapped nodes, the lower order's first [m].
-    weights : ndarray (b, n_low + n_high)
-        Gauss weight times box size times the map's measure.
-    n_low : int
-        Nodes per box of the lower order.
+    points : ndarray (b, m, 3)
+        Mapped nodes [m].
+    weight : ndarray (b, m)
+        The map's measure at the nodes times the box volume in parameter space.
+    rule_weights : ndarray (m, c)
+        The rule's weight columns (:func:`box_rule`).
 
     Notes
     -----
-    Tensor Gauss-Legendre nodes scaled onto each box; see :func:`tensor_gauss_rule`.
+    Rule nodes scaled onto each box; the integral over a box by rule column j is
+    sum_i rule_weights[i, j] * f(points_i) * weight_i.
 
     References
     ----------
     Davis & Rabinowitz, Methods of Numerical Integration (1984), sec. 5.6.
     """
-    nodes, weights, n_low = _paired_rule(tuple(orders), low.shape[1])
-    per_box = len(weights)
+    nodes, rule_weights = box_rule(orders, low.shape[1])
+    per_box = len(nodes)
     span = high - low
     params = low[:, None, :] + span[:, None, :] * nodes[None, :, :]
-    box_weight = np.prod(span, axis=1)[:, None] * weights[None, :]
     points = np.empty(params.shape[:2] + (3,))
     measure = np.empty(params.shape[:2])
     for index in np.unique(face):
@@ -223,38 +244,47 @@ def box_nodes(maps, face, low, high, orders: tuple[int, int] = DEFAULT_ORDERS):
         p, m = maps[index](params[mine].reshape(-1, low.shape[1]))
         points[mine] = p.reshape(-1, per_box, 3)
         measure[mine] = m.reshape(-1, per_box)
-    return points, measure * box_weight, n_low
+    return points, measure * np.prod(span, axis=1)[:, None], rule_weights
 
 
-def box_sums(values, n_low: int, error_size):
-    """Higher-order value and error size of every box from the integrand at its nodes.
+def box_sums(values, rule_weights, error_size):
+    """Value and error parts of every box from the weighted integrand at its nodes.
 
     Parameters
     ----------
-    values : array (b, n_low + n_high, k)
-        Weighted integrand at the nodes of :func:`box_nodes`.
-    n_low : int
+    values : array (b, m, k)
+        Integrand times ``weight`` at the nodes of :func:`box_nodes`.
+    rule_weights : array (m, c)
     error_size : callable
         As in :func:`adaptive_box_integral`.
 
     Returns
     -------
-    q_high : ndarray (b, k)
-    error : ndarray (b,)
-        ``error_size(q_high - q_low)``.
+    value : ndarray (b, k)
+        The better rule (column 0).
+    error : ndarray (b, c - 1)
+        ``error_size(Q_0 - Q_j)`` for each lower rule j.
     """
-    q_low = values[:, :n_low].sum(axis=1)
-    q_high = values[:, n_low:].sum(axis=1)
-    return q_high, error_size(q_high - q_low)
+    sums = np.einsum("bmk,mc->bck", values, rule_weights)
+    return sums[:, 0], error_size(sums[:, :1] - sums[:, 1:])
 
 
-def _bisect(face, low, high):
-    """Split each box into 2^d children at its midpoint."""
+def _bisect(face, low, high, along):
+    """Split each box at its midpoint along the parameters flagged in ``along`` (b, d)."""
     dimension = low.shape[1]
     mid = (low + high) / 2
-    corners = np.array(np.meshgrid(*([[0, 1]] * dimension), indexing="ij")).reshape(dimension, -1).T
-    child_low = np.where(corners[None, :, :] == 0, low[:, None, :], mid[:, None, :])
-    child_high = np.where(corners[None, :, :] == 0, mid[:, None, :], high[:, None, :])
-    n_children = len(corners)
-    return (np.repeat(face, n_children), child_low.reshape(-1, dimension),
-            child_high.reshape(-1, dimension))
+    faces, lows, highs = [], [], []
+    for pattern in np.unique(along, axis=0):
+        mine = np.all(along == pattern, axis=1)
+        axes = np.flatnonzero(pattern)
+        corners = np.zeros((2 ** len(axes), dimension), dtype=int)
+        corners[:, axes] = np.array(np.meshgrid(*([[0, 1]] * len(axes)),
+                                                indexing="ij")).reshape(len(axes), -1).T
+        split = corners[None, :, :] == 1
+        child_low = np.where(split, mid[mine][:, None, :], low[mine][:, None, :])
+        child_high = np.where(split | ~pattern[None, None, :], high[mine][:, None, :],
+                              mid[mine][:, None, :])
+        faces.append(np.repeat(face[mine], len(corners)))
+        lows.append(child_low.reshape(-1, dimension))
+        highs.append(child_high.reshape(-1, dimension))
+    return np.concatenate(faces), np.concatenate(lows), np.concatenate(highs)

@@ -7,6 +7,11 @@ lies on or outside the true line up to the grid resolution. Lines come from cont
 lowest threshold, so every line is closed and regions of neighbouring magnets that join are
 one line.
 
+The map grid is evaluated adaptively (``refine``): exactly at every corner of every grid
+cell a line can cross, by proven interpolation elsewhere, so the lines are those of the
+fully evaluated grid at a fraction of the cost (about 40 % of the points for 30 magnets
+at seven thresholds).
+
 References
 ----------
 W. E. Lorensen, H. E. Cline, Computer Graphics 21(4), 163-169 (1987) (marching cubes/squares,
@@ -19,12 +24,13 @@ from contourpy import LineType, contour_generator
 from scipy.constants import mu_0
 
 from planner.physics.zones.bounds import field_with_error
+from planner.physics.zones.refine import INSIDE_VALUE, VIEWS, plane_points, refined_plane_grid
 
-VIEWS = {"plan": (0, 1, 2), "elevation": (0, 2, 1)}  # (across-page, up-page, normal) axes
+__all__ = ["VIEWS", "contour_lines", "field_contours", "field_grid", "plane_grid"]
 
 
 def plane_grid(bodies, view, offset, extent, resolution, allowed_error):
-    """|B| upper values on a plane grid.
+    """|B| upper values on a plane grid, evaluated at every point.
 
     Parameters
     ----------
@@ -46,15 +52,12 @@ def plane_grid(bodies, view, offset, extent, resolution, allowed_error):
     u (resolution,), v (resolution,), magnitude (resolution, resolution) [m, m, T];
     ``magnitude[j, i]`` is at (u[i], v[j]).
     """
-    across, up, normal = VIEWS[view]
     u = np.linspace(extent[0], extent[1], resolution)
     v = np.linspace(extent[2], extent[3], resolution)
     uu, vv = np.meshgrid(u, v)
-    points = np.zeros((uu.size, 3))
-    points[:, across], points[:, up], points[:, normal] = uu.ravel(), vv.ravel(), offset
-    value, error = field_with_error(bodies, points, allowed_error)
+    value, error = field_with_error(bodies, plane_points(view, offset, uu.ravel(), vv.ravel()), allowed_error)
     magnitude = (value + error).reshape(uu.shape)
-    return u, v, np.where(np.isfinite(magnitude), magnitude, 1e3)
+    return u, v, np.where(np.isfinite(magnitude), magnitude, INSIDE_VALUE)
 
 
 def _first_extent(bodies, view, threshold):
@@ -72,16 +75,23 @@ def _border(magnitude):
 
 
 def field_grid(bodies, thresholds, view="plan", offset=0.0, resolution=400, extent=None):
-    """Plane grid whose border lies below the lowest threshold (grown by 1.5x until it does).
+    """Plane grid for the ``thresholds``, its border below the lowest (grown by 1.5x until it is).
 
-    Returns u, v, magnitude as :func:`plane_grid`. ``extent`` (optional) is the first try.
+    Returns u, v, magnitude as :func:`plane_grid`, with the same values at every corner of
+    every grid cell that a threshold line crosses, and elsewhere values proven to lie on the
+    same side of every threshold as :func:`plane_grid`'s (``refine.refined_plane_grid``), so
+    contour lines and the border test come out the same. ``extent`` (optional) is the
+    first try. An extent is given up as soon as its coarse lattice shows a border point at
+    or above the lowest threshold, before any refinement.
     """
+    thresholds = np.atleast_1d(np.asarray(thresholds, dtype=float))
     lowest = float(np.min(thresholds))
     extent = np.asarray(_first_extent(bodies, view, lowest) if extent is None else extent, float)
     for _ in range(12):
-        u, v, magnitude = plane_grid(bodies, view, offset, extent, resolution, 2e-3 * lowest)
-        if _border(magnitude) < lowest:
-            return u, v, magnitude
+        grid = refined_plane_grid(bodies, thresholds, view, offset, extent, resolution, 2e-3 * lowest,
+                                  border_limit=lowest)
+        if grid is not None and _border(grid[2]) < lowest:
+            return grid[:3]
         middle = np.repeat([(extent[0] + extent[1]) / 2, (extent[2] + extent[3]) / 2], 2)
         extent = middle + 1.5 * (extent - middle)
     raise RuntimeError("the field does not fall below the threshold on any plane grid tried")

@@ -1,0 +1,288 @@
+"""Plane grid of the upper value |B| + error, evaluated only where a contour line can pass.
+
+A map is contoured at a few thresholds, so its value matters only near them. The grid is
+first evaluated on a coarse lattice (every ``step``-th point); each coarse cell then either
+is *settled*, proven to hold no point on the far side of any threshold from its corners, and
+is filled by bilinear interpolation of its corner values, or is split into cells of half
+the step whose corners are evaluated, down to the grid itself.
+
+The proof (why a settled cell cannot hide a contour). Let B be the true field, B_m the model
+of :func:`~planner.physics.zones.bounds.field_with_error` (exact near each body, point dipole
+far away) with |B - B_m| <= e <= a at every point (a the allowed error), and f = |B_m| + e the
+value contoured, so |B| <= f <= |B| + 2a. On a cell of sides h_u x h_v with corner field
+vectors B_c, the bilinear interpolant P of B obeys, component by component along any unit w,
+|B - P| <= (h_u^2 + h_v^2) M2 / 8 =: E2 (the linear-interpolation remainder h^2/8 max|g''|
+applied along u, then along v), M2 a bound on ||D^2 B|| over the ball holding the cell
+(:func:`~planner.physics.zones.certify.derivative_bound`, order 2: 4! k m / e^5 from the
+Legendre expansion of 1/r, or the surface-charge form beside a face). P(x) is a convex
+combination of the corner vectors, so for every x in the cell and any unit vector n
+
+    n . B_m(c)_min - a - E2  <=  |B(x)|  <=  max |B_m(c)| + a + E2,
+
+with n the direction of the corners' mean. Hence f(x) lies in
+[min n . B_m(c) - a - E2, max |B_m(c)| + 3a + E2], widened by a relative 1e-6 for the
+rounding of the field routines. If no threshold lies in that interval, every grid point of
+the cell is on the same side of every threshold as its corners, whatever value is written
+there, and so are the interpolated values (between the corner values). A cell that touches
+a body (M2 infinite) or whose corners are not finite is never settled.
+
+Consequence: the grid holds the exact f at every corner of every grid cell that any
+threshold line crosses, and values on the right side of every threshold everywhere else.
+Marching squares draws a line only through cells whose corners straddle the level, from
+those corner values alone, so the lines are the same as from evaluating f at every point.
+
+References
+----------
+J. D. Jackson, Classical Electrodynamics, 3rd ed., Wiley (1999), eq. 3.70 (Legendre
+generating function) and eq. 5.56 (dipole field).
+M. Abramowitz, I. A. Stegun, Handbook of Mathematical Functions (1964), 25.2.4 (error of
+linear interpolation, h^2/8 max|f''|).
+"""
+from __future__ import annotations
+
+import numpy as np
+
+from planner.physics.zones.bounds import BodyTable, _ball_geometry, dipole_assignment, model_field
+from planner.physics.zones.certify import derivative_bound
+
+VIEWS = {"plan": (0, 1, 2), "elevation": (0, 2, 1)}  # (across-page, up-page, normal) axes
+INSIDE_VALUE = 1e3  # [T] written where the field is not finite (on a body's edge)
+ROUNDING = 1e-6  # relative widening of the proven interval for the field routines' rounding
+
+
+def plane_points(view, offset, u, v):
+    """Points (n, 3) [m] of a plane at plane coordinates u (n,), v (n,) [m].
+
+    Plan: (x, y, z) = (u, v, offset); elevation: (x, y, z) = (u, offset, v).
+
+    >>> plane_points("elevation", 0.5, np.array([1.0]), np.array([2.0])).tolist()
+    [[1.0, 0.5, 2.0]]
+    """
+    across, up, normal = VIEWS[view]
+    points = np.empty((len(u), 3))
+    points[:, across], points[:, up], points[:, normal] = u, v, offset
+    return points
+
+
+def lattice(count, step):
+    """Grid indices 0, step, 2 step, ... and the last one, count - 1.
+
+    >>> lattice(10, 4).tolist()
+    [0, 4, 8, 9]
+    """
+    return np.unique(np.r_[np.arange(0, max(count - 1, 1), step), count - 1])
+
+
+def coarsest_step(resolution, cells=8, largest=32):
+    """Power-of-two step leaving at least ``cells`` coarse cells per side (at most ``largest``)."""
+    step = 1
+    while step * 2 <= min(largest, (resolution - 1) / cells):
+        step *= 2
+    return step
+
+
+def _bilinear(corners, s, t):
+    """Bilinear blend of corner values (4, n, ...) ordered (v0 u0, v0 u1, v1 u0, v1 u1); s, t (n,)."""
+    shape = s.shape + (1,) * (corners.ndim - 2)
+    s, t = s.reshape(shape), t.reshape(shape)
+    return (1 - t) * ((1 - s) * corners[0] + s * corners[1]) + t * ((1 - s) * corners[2] + s * corners[3])
+
+
+def _settled(vectors, remainder, allowed_error, thresholds):
+    """True where no threshold lies in the proven range of f over a cell (module docstring).
+
+    ``vectors`` (4, n, 3): corner model fields of each cell [T]; ``remainder`` (n,): the bound
+    E2 on |B - P| over the cell [T]. NaN inputs (edges, cells touching a body) give False.
+    """
+    mean = vectors.sum(axis=0)
+    with np.errstate(invalid="ignore", divide="ignore", over="ignore"):
+        direction = mean / np.sqrt(np.einsum("nk,nk->n", mean, mean))[:, None]
+        along = np.min(np.einsum("cnk,nk->cn", vectors, direction), axis=0)
+        largest = np.max(np.sqrt(np.einsum("cnk,cnk->cn", vectors, vectors)), axis=0)
+        lower = (np.maximum(along, 0.0) - allowed_error - remainder) * (1 - ROUNDING)
+        upper = (largest + 3 * allowed_error + remainder) * (1 + ROUNDING)
+        clear = (thresholds[:, None] < lower) | (thresholds[:, None] > upper)
+    return np.all(clear, axis=0)
+
+
+class _PlaneGrid:
+    """Values f = |B_m| + e and model fields B_m on a square plane grid, filled as they are known.
+
+    A level is a lattice of grid indices (the same along u and v); its cell (a, b) spans rows
+    nodes[a]..nodes[a + 1] and columns nodes[b]..nodes[b + 1].
+    """
+
+    def __init__(self, bodies, view, offset, u, v, allowed_error):
+        self.bodies, self.view, self.offset, self.u, self.v = bodies, view, offset, u, v
+        self.allowed_error = allowed_error
+        self.table = BodyTable(bodies)
+        shape = (len(v), len(u))
+        self.value = np.zeros(shape)
+        self.vector = np.full(shape + (3,), np.nan)
+        self.exact = np.zeros(shape, bool)
+        self.known = np.zeros(shape, bool)
+        self.evaluated = 0
+
+    def evaluate(self, rows, columns):
+        """f at grid points (rows, columns) not evaluated yet, as ``bounds.field_with_error``."""
+        new = ~self.exact[rows, columns]
+        rows, columns = rows[new], columns[new]
+        if not len(rows):
+            return
+        points = plane_points(self.view, self.offset, self.u[columns], self.v[rows])
+        far, error, _ = dipole_assignment(self.bodies, points, self.allowed_error, self.table)
+        vector = model_field(self.bodies, points, far, self.table)
+        value = np.sqrt(np.einsum("nk,nk->n", vector, vector)) + error
+        finite = np.isfinite(value)
+        self.value[rows, columns] = np.where(finite, value, INSIDE_VALUE)
+        self.vector[rows, columns] = np.where(finite[:, None], vector, np.nan)
+        self.exact[rows, columns] = self.known[rows, columns] = True
+        self.evaluated += len(rows)
+
+    def corners(self, nodes, a, b):
+        """Corner model fields (4, n, 3) of cells (a, b) of the level ``nodes``."""
+        r0, r1, c0, c1 = nodes[a], nodes[a + 1], nodes[b], nodes[b + 1]
+        return np.stack([self.vector[r0, c0], self.vector[r0, c1], self.vector[r1, c0], self.vector[r1, c1]])
+
+    def fractions(self, nodes, a, b, rows, columns):
+        """Positions s (along u) and t (along v) in [0, 1] of grid points within cells (a, b)."""
+        u, v = self.u, self.v
+        s = (u[columns] - u[nodes[b]]) / (u[nodes[b + 1]] - u[nodes[b]])
+        t = (v[rows] - v[nodes[a]]) / (v[nodes[a + 1]] - v[nodes[a]])
+        return s, t
+
+    def remainder(self, nodes, a, b):
+        """E2 = (h_u^2 + h_v^2) max||D^2 B|| / 8 [T] over cells (a, b) (inf if one touches a body)."""
+        u, v = self.u, self.v
+        width = u[nodes[b + 1]] - u[nodes[b]]
+        depth = v[nodes[a + 1]] - v[nodes[a]]
+        centres = plane_points(self.view, self.offset, (u[nodes[b]] + u[nodes[b + 1]]) / 2,
+                               (v[nodes[a]] + v[nodes[a + 1]]) / 2)
+        geometry = _ball_geometry(self.bodies, centres, self.table)
+        return (width**2 + depth**2) / 8 * derivative_bound(geometry, 0.5 * np.hypot(width, depth), 2)
+
+    def fill(self, nodes, settled, corner_nodes):
+        """Give the unknown points whose cell of level ``nodes`` is ``settled`` (mask) the size of the
+        bilinear interpolation of the corner fields of their cell of level ``corner_nodes``
+        (the same cell or one holding it); it lies in the cell's proven range."""
+        def cell_of(lattice_nodes):
+            return np.clip(np.searchsorted(lattice_nodes, np.arange(len(self.u)), "right") - 1,
+                           0, len(lattice_nodes) - 2)
+
+        cell = cell_of(nodes)
+        rows, columns = np.nonzero(~self.known & settled[cell[:, None], cell[None, :]])
+        if not len(rows):
+            return
+        outer = cell_of(corner_nodes)
+        a, b = outer[rows], outer[columns]
+        s, t = self.fractions(corner_nodes, a, b, rows, columns)
+        inside = _bilinear(self.corners(corner_nodes, a, b), s, t)
+        self.value[rows, columns] = np.sqrt(np.einsum("nk,nk->n", inside, inside))
+        self.known[rows, columns] = True
+
+
+def refined_plane_grid(bodies, thresholds, view, offset, extent, resolution, allowed_error, step=None,
+                       border_limit=None):
+    """|B| upper values on a plane grid, exact wherever a threshold line can pass.
+
+    Parameters
+    ----------
+    bodies : list of MagnetBody
+    thresholds : array_like
+        Flux densities whose lines the grid is for [T].
+    view : {"plan", "elevation"}
+        Plan: the plane z = offset, coordinates (x, y); elevation: y = offset, (x, z).
+    offset : float
+        Position of the plane along its normal [m].
+    extent : (u_min, u_max, v_min, v_max)
+        Plane coordinates [m].
+    resolution : int
+        Grid points along each side.
+    allowed_error : float
+        Accepted error of the far-field dipole model [T].
+    step : int, optional
+        Coarsest lattice step, a power of two (default :func:`coarsest_step`).
+    border_limit : float, optional
+        If some coarse point on the border has a value at or above it, stop early and
+        return None (the caller will try a larger extent).
+
+    Returns
+    -------
+    u (resolution,), v (resolution,), magnitude (resolution, resolution) [m, m, T], or None
+        ``magnitude[j, i]`` is at (u[i], v[j]); the value |B| + error of
+        ``bounds.field_with_error`` at every corner of every grid cell a threshold line
+        crosses, elsewhere a bilinear interpolation on the same side of every threshold.
+        Also returned: the number of points evaluated.
+
+    Notes
+    -----
+    See the module docstring for the proof that a filled cell hides no line:
+    |B(x)| lies within [min n . B(c) - E2, max |B(c)| + E2] on a cell with corner fields
+    B(c), E2 = (h_u^2 + h_v^2) max||D^2 B|| / 8, so a cell whose widened interval holds no
+    threshold is filled. Valid for any bodies; cells touching a body are always evaluated.
+
+    References
+    ----------
+    Jackson, Classical Electrodynamics, 3rd ed. (1999), eqs. 3.70, 5.56; Abramowitz & Stegun
+    (1964), 25.2.4.
+
+    Examples
+    --------
+    >>> from planner.physics.bodies import MagnetBody
+    >>> ball = MagnetBody("sphere", [0, 0, 0], np.eye(3), [0, 0, 1.2], diameter=0.01)
+    >>> u, v, grid, count = refined_plane_grid([ball], [1e-3], "plan", 0.0, (-0.1, 0.1, -0.1, 0.1), 101, 2e-6)
+    >>> bool(count < 101 * 101), bool(grid[50, 0] < 1e-3 < grid[50, 50])
+    (True, True)
+    """
+    thresholds = np.atleast_1d(np.asarray(thresholds, dtype=float))
+    u = np.linspace(extent[0], extent[1], resolution)
+    v = np.linspace(extent[2], extent[3], resolution)
+    grid = _PlaneGrid(bodies, view, offset, u, v, allowed_error)
+    step = coarsest_step(resolution) if step is None else int(step)
+    nodes = lattice(resolution, step)
+    rows, columns = np.meshgrid(nodes, nodes, indexing="ij")
+    grid.evaluate(rows.ravel(), columns.ravel())
+    if border_limit is not None:
+        values = grid.value[np.ix_(nodes, nodes)]
+        if max(values[0].max(), values[-1].max(), values[:, 0].max(), values[:, -1].max()) >= border_limit:
+            return None
+    active = np.ones((len(nodes) - 1, len(nodes) - 1), bool)
+    while step > 1:
+        # Cells with evaluated corners: settle them on their own bound E2 ...
+        a, b = np.nonzero(active)
+        remainder = grid.remainder(nodes, a, b)
+        settled = _settled(grid.corners(nodes, a, b), remainder, allowed_error, thresholds)
+        mask = np.zeros_like(active)
+        mask[a[settled], b[settled]] = True
+        grid.fill(nodes, mask, nodes)
+        # ... then the halves of the others on their parent's interpolation, before evaluating
+        # their corners: B = P + R inside the parent, so the parent's E2 holds for each child.
+        step //= 2
+        finer = lattice(resolution, step)
+        parent = np.clip(np.searchsorted(nodes, finer[:-1], "right") - 1, 0, len(nodes) - 2)
+        open_cells = np.zeros_like(active)
+        open_cells[a[~settled], b[~settled]] = True
+        child_a, child_b = np.nonzero(open_cells[parent[:, None], parent[None, :]])
+        parent_remainder = np.zeros_like(active, dtype=float)
+        parent_remainder[a, b] = remainder
+        pa, pb = parent[child_a], parent[child_b]
+        parent_corners = grid.corners(nodes, pa, pb)
+        virtual = [_bilinear(parent_corners, *grid.fractions(nodes, pa, pb, finer[child_a + i], finer[child_b + j]))
+                   for i in (0, 1) for j in (0, 1)]
+        child_settled = _settled(np.stack(virtual), parent_remainder[pa, pb], allowed_error, thresholds)
+        mask = np.zeros((len(finer) - 1, len(finer) - 1), bool)
+        mask[child_a[child_settled], child_b[child_settled]] = True
+        grid.fill(finer, mask, nodes)
+        active = np.zeros_like(mask)
+        active[child_a[~child_settled], child_b[~child_settled]] = True
+        corner = np.zeros((len(finer), len(finer)), bool)
+        corner[:-1, :-1] |= active
+        corner[1:, :-1] |= active
+        corner[:-1, 1:] |= active
+        corner[1:, 1:] |= active
+        corner_rows, corner_columns = np.nonzero(corner)
+        grid.evaluate(finer[corner_rows], finer[corner_columns])
+        nodes = finer
+    if not grid.known.all():  # every point is a corner of an open cell or inside a settled one
+        raise RuntimeError("refined plane grid left points without a value")
+    return u, v, grid.value, grid.evaluated

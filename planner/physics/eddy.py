@@ -37,10 +37,10 @@ from dataclasses import dataclass
 import numpy as np
 from scipy.constants import g as standard_gravity
 from scipy.constants import mu_0
-from scipy.optimize import brentq
 from scipy.special import roots_legendre
 
 from planner.physics.induction.magnet_flux import AxialMagnet, loop_flux, radial_field
+from planner.physics.roots import bracketed_root
 
 _LOW_SPEED_LIMIT = 0.1
 _GRADING = np.array([0.03, 0.1, 0.3, 1.0, 3.0, 10.0, 30.0, 100.0, 300.0, 1000.0])
@@ -222,8 +222,8 @@ def tube_fall(magnet: AxialMagnet, mass, tube_length, inner_radius, outer_radius
     tau = mass / k
     terminal = gravity * tau
     upper = tube_length / terminal + 2.0 * tau
-    time = brentq(lambda t: fall_distance(t, mass, k, entry_speed, gravity) - tube_length,
-                  0.0, max(upper, free), xtol=1e-12, rtol=1e-12)
+    time = bracketed_root(lambda t: fall_distance(t, mass, k, entry_speed, gravity) - tube_length,
+                          0.0, max(upper, free), xtol=1e-12, rtol=1e-12)
     exit_speed = terminal + (entry_speed - terminal) * np.exp(-time / tau)
     number = mu_0 * conductivity * terminal * inner_radius
     return TubeFall(k, terminal, tau, float(time), float(free), float(exit_speed), clearance,

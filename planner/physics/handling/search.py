@@ -3,12 +3,13 @@
 References
 ----------
 R. P. Brent, *Algorithms for Minimization without Derivatives*, Prentice-Hall (1973),
-ch. 4 (the root bracketing used through :func:`scipy.optimize.brentq`).
+ch. 4 (the root refinement, :func:`planner.physics.roots.bracketed_root`).
 """
 from __future__ import annotations
 
 import numpy as np
-from scipy.optimize import brentq
+
+from planner.physics.roots import bracketed_root
 
 
 def largest_exceeding(function, level: float, search_limit: float, smallest: float = 0.0,
@@ -75,5 +76,5 @@ def largest_exceeding(function, level: float, search_limit: float, smallest: flo
         values = np.array([function(x) for x in grid])
     above = np.nonzero(values > level)[0]
     last = above[-1]
-    return float(brentq(lambda x: scalar(x) - level, grid[last], grid[last + 1], xtol=xtol,
-                        rtol=1e-12))
+    return float(bracketed_root(lambda x: scalar(x) - level, grid[last], grid[last + 1], xtol=xtol,
+                                rtol=1e-12))

@@ -18,10 +18,10 @@ Magnet as a current sheet: Derby & Olbert, Am. J. Phys. 78, 229-235 (2010).
 from __future__ import annotations
 
 from dataclasses import dataclass
+from itertools import accumulate
 
 import numpy as np
 from scipy.constants import g as standard_gravity
-from scipy.signal import lfilter
 from scipy.special import roots_legendre
 
 from planner.physics.bodies import rotation_from_axis
@@ -139,9 +139,11 @@ def circuit_current(times, emf, resistance, inductance=0.0):
     decay = np.exp(-step * resistance / inductance)
     q = inductance / (resistance * step) * (1.0 - decay)
     numerator = np.array([1.0 - q, q - decay]) / resistance
-    initial = np.array([-numerator[0] * emf[0]])
-    current, _ = lfilter(numerator, [1.0, -decay], emf, zi=initial)
-    return current
+    # i[0] = 0; i[n+1] = a i[n] + b0 e[n+1] + b1 e[n] (a plain loop: scipy.signal's filter
+    # cost half a second of start-up for this one recursion).
+    drive = numerator[0] * emf[1:] + numerator[1] * emf[:-1]
+    return np.fromiter(accumulate(drive, lambda current, push: decay * current + push, initial=0.0),
+                       dtype=float, count=len(emf))
 
 
 def passage_time_series(magnet: AxialMagnet, winding: Winding, *, speed=None, drop_height=None,

@@ -146,19 +146,25 @@ def dipole_assignment(bodies, points, allowed_error, table=None, distance=None):
 def model_field(bodies, points, far, table=None):
     """B (n, 3) [T]: point dipoles for the (point, body) pairs in ``far``, exact otherwise."""
     total = np.zeros_like(points)
-    if far.any():
-        table = body_table(bodies, table)
-        moments = table.vectors
-        offset = points[:, None, :] - table.centres[None]
-        distance = np.linalg.norm(offset, axis=2)
+    table = body_table(bodies, table)
+    rows, columns = np.nonzero(far)
+    if len(rows):
+        # Only the far pairs are computed (gathered, then summed per point).
+        offset = points[rows] - table.centres[columns]
+        moments = table.vectors[columns]
+        square = np.einsum("ij,ij->i", offset, offset)
         with np.errstate(invalid="ignore", divide="ignore"):
-            unit = offset / distance[..., None]
-            along = np.einsum("nbk,bk->nb", unit, moments)
-            dipoles = K * (3 * unit * along[..., None] - moments[None]) / distance[..., None] ** 3
-        total += np.sum(np.where(far[..., None], dipoles, 0.0), axis=1)
+            inverse = 1.0 / np.sqrt(square)
+            inverse_cube = K * inverse**3
+            along = 3 * np.einsum("ij,ij->i", offset, moments) * inverse**2
+            dipoles = inverse_cube[:, None] * (offset * along[:, None] - moments)
+        for axis in range(3):
+            total[:, axis] = np.bincount(rows, dipoles[:, axis], minlength=len(points))
     for i, body in enumerate(bodies):
         near = ~far[:, i]
-        if near.any():
+        if near.all():
+            total += exact_body_field(body, points)
+        elif near.any():
             total[near] += exact_body_field(body, points[near])
     return total
 

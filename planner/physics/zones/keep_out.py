@@ -199,65 +199,130 @@ def keep_out_radii(bodies: list[MagnetBody], index: int, thresholds) -> np.ndarr
     floor = bodies[index].bounding_radius
     previous = None
     table = bounds.BodyTable(bodies)
+    rays = None
     for position in np.argsort(thresholds):
         threshold = thresholds[position]
         start = farthest_start_radius(bodies, index, threshold)
         if previous is not None:
             start = min(start, previous)
-        radius = _refine(bodies, index, threshold, start, table)
+        if rays is None:  # sampled once, out to the lowest threshold's start
+            rays = _RaySamples(bodies, index, start, threshold, table)
+        radius = _refine(bodies, index, threshold, start, table, rays)
         radius = _verify(bodies, index, threshold, max(radius, floor), table=table)
         result[position] = previous = radius * (1 + 1e-9)  # rounding, outward
     return result
 
 
-def _probe(bodies, index, axes, radii, threshold, samples=24, halvings=8, table=None):
+def _surely_reached(bodies, index, axes, distance, threshold, table):
+    """Which points at ``distance`` (n, k) [m] along ``axes`` (n, 3) surely have |B| >= threshold.
+
+    Only points of the body's own cell count (at least as close to its centre as to any
+    other); "surely" means the model value minus its proven error.
+    """
+    centre = bodies[index].center
+    points = centre + (distance[..., None] * axes[:, None, :]).reshape(-1, 3)
+    keep = np.ones(len(points), bool)
+    if len(bodies) > 1:
+        others = np.delete(table.centres, index, axis=0)
+        nearest = np.min(np.linalg.norm(points[:, None] - others[None], axis=2), axis=1)
+        keep = distance.ravel() <= nearest
+    reached = np.zeros(len(points), bool)
+    if keep.any():
+        value, error = field_with_error(bodies, points[keep], 2e-3 * threshold, table)
+        reached[keep] = value - error >= threshold
+    return reached.reshape(distance.shape)
+
+
+def _bisect_outermost(bodies, index, axes, inner, outer, threshold, best, table, halvings=6):
+    """Farthest radius [m] found at the threshold between ``inner`` (reached) and ``outer``.
+
+    Only rays whose bracket can beat the best so far are bisected: the answer is a maximum.
+    """
+    for _ in range(halvings):
+        promising = outer > best
+        if not promising.any():
+            break
+        axes, inner, outer = axes[promising], inner[promising], outer[promising]
+        middle = 0.5 * (inner + outer)
+        ok = _surely_reached(bodies, index, axes, middle[:, None], threshold, table)[:, 0]
+        inner = np.where(ok, middle, inner)
+        outer = np.where(ok, outer, middle)
+        best = max(best, float(np.max(inner)))
+    return best
+
+
+def _probe(bodies, index, axes, radii, threshold, samples=10, table=None, inner=0.0):
     """Farthest radius found on the given axes, inside ``radii``, where |B| surely >= threshold.
 
     A lower bound of the exact distance (used only to decide where to refine): geometric
-    samples from the body's bounding radius out to ``radii``, then bisection between the
-    outermost sample at the threshold and the next one out.
+    samples from ``inner`` (a radius already found at the threshold, or the body's bounding
+    radius) out to ``radii``, then bisection between the outermost sample at the threshold
+    and the next one out. Returns ``inner`` if nothing farther is found.
     """
-    centre = bodies[index].center
-    floor = bodies[index].bounding_radius * (1 + 1e-6)
-    others = np.array([b.center for i, b in enumerate(bodies) if i != index]).reshape(-1, 3)
-    radii = np.maximum(radii, floor)
-
-    def surely_reached(distance):  # distance (n, k) along axes (n, 3)
-        points = centre + (distance[..., None] * axes[:, None, :]).reshape(-1, 3)
-        keep = np.ones(len(points), bool)
-        if len(others):
-            nearest = np.min(np.linalg.norm(points[:, None] - others[None], axis=2), axis=1)
-            keep = distance.ravel() <= nearest
-        reached = np.zeros(len(points), bool)
-        if keep.any():
-            value, error = field_with_error(bodies, points[keep], 2e-3 * threshold, table)
-            reached[keep] = value - error >= threshold
-        return reached.reshape(distance.shape)
-
+    table = bounds.body_table(bodies, table)
+    floor = max(bodies[index].bounding_radius * (1 + 1e-6), inner)
+    outward = radii > floor
+    if not outward.any():
+        return inner
+    axes, radii = axes[outward], radii[outward]
     fractions = np.linspace(0.0, 1.0, samples)
     distance = floor * (radii[:, None] / floor) ** fractions[None, :]
-    reached = surely_reached(distance)
+    reached = _surely_reached(bodies, index, axes, distance, threshold, table)
+    return _outermost_from_samples(bodies, index, axes, distance, reached, threshold, inner, table)
+
+
+def _outermost_from_samples(bodies, index, axes, distance, reached, threshold, best, table):
+    """Bisect past the outermost reached sample of each ray (distance, reached: (n, k))."""
     any_reached = reached.any(axis=1)
     if not any_reached.any():
-        return 0.0
+        return best
+    samples = distance.shape[1]
     outermost = samples - 1 - np.argmax(reached[:, ::-1], axis=1)
     rows = np.flatnonzero(any_reached)
     inner = distance[rows, outermost[rows]]
-    outer = distance[rows, np.minimum(outermost[rows] + 1, samples - 1)]
-    axes = axes[rows]
-    for _ in range(halvings):
-        middle = 0.5 * (inner + outer)
-        ok = surely_reached(middle[:, None])[:, 0]
-        inner = np.where(ok, middle, inner)
-        outer = np.where(ok, outer, middle)
-    return float(np.max(inner))
+    outer = np.where(outermost[rows] + 1 < samples,
+                     distance[rows, np.minimum(outermost[rows] + 1, samples - 1)], inner)
+    best = max(best, float(np.max(inner)))
+    return _bisect_outermost(bodies, index, axes[rows], inner, outer, threshold, best, table)
+
+
+class _RaySamples:
+    """|B| lower values on fixed rays of one body, sampled once and shared by all thresholds.
+
+    ``directions`` (n, 3) rays from the body's centre, sampled geometrically from its
+    bounding radius out to ``reach`` [m]; ``lower`` (n, k) the model value minus its proven
+    error (own cell only, -inf elsewhere), with the error allowance of the lowest threshold.
+    """
+
+    def __init__(self, bodies, index, reach, lowest, table, count=PROBED_CONES * 4, samples=40):
+        self.bodies, self.index, self.table = bodies, index, table
+        self.directions = fibonacci_directions(count)
+        floor = bodies[index].bounding_radius * (1 + 1e-6)
+        fractions = np.linspace(0.0, 1.0, samples)
+        self.distance = np.broadcast_to(floor * (max(reach, floor) / floor) ** fractions, (count, samples))
+        centre = bodies[index].center
+        points = centre + (self.distance[..., None] * self.directions[:, None, :]).reshape(-1, 3)
+        keep = np.ones(len(points), bool)
+        if len(bodies) > 1:
+            others = np.delete(table.centres, index, axis=0)
+            nearest = np.min(np.linalg.norm(points[:, None] - others[None], axis=2), axis=1)
+            keep = self.distance.ravel() <= nearest
+        lower = np.full(len(points), -np.inf)
+        value, error = field_with_error(bodies, points[keep], 2e-3 * lowest, table)
+        lower[keep] = value - error
+        self.lower = lower.reshape(self.distance.shape)
+
+    def farthest(self, threshold):
+        """Farthest radius [m] found at ``threshold`` on these rays (0 if none)."""
+        return _outermost_from_samples(self.bodies, self.index, self.directions, self.distance,
+                                       self.lower >= threshold, threshold, 0.0, self.table)
 
 
 def _close_enough(proven, best):
     return proven <= np.maximum(best * (1 + RELATIVE_TARGET), best + ABSOLUTE_TARGET)
 
 
-def _refine(bodies, index, threshold, start, table=None):
+def _refine(bodies, index, threshold, start, table, rays):
     """Adaptive cones: subdivide those whose proven radius is not yet close to the best hit."""
     allowed_error = 2e-3 * threshold
     triangles = icosahedron_triangles(START_LEVEL)
@@ -266,9 +331,7 @@ def _refine(bodies, index, threshold, start, table=None):
     # field grows without bound: the exact distance is at least the bounding radius.
     best_hit = 0.0 if bodies[index].shape == "sphere" else bodies[index].bounding_radius
     # The proven start itself may already be close enough to a point found at the threshold.
-    directions = fibonacci_directions(PROBED_CONES * 4)
-    best_hit = max(best_hit, _probe(bodies, index, directions, np.full(len(directions), start), threshold,
-                                    table=table))
+    best_hit = max(best_hit, rays.farthest(threshold))
     if _close_enough(start, best_hit):
         return start
     settled = 0.0
@@ -280,7 +343,8 @@ def _refine(bodies, index, threshold, start, table=None):
         proven, hit = _march(bodies, index, axes, half_angles, starts, threshold, allowed_error, table,
                              goal=max(settled, best_hit))
         top = np.argsort(proven)[-PROBED_CONES:]
-        best_hit = max(best_hit, hit, _probe(bodies, index, axes[top], proven[top], threshold, table=table))
+        best_hit = max(best_hit, hit)
+        best_hit = _probe(bodies, index, axes[top], proven[top], threshold, table=table, inner=best_hit)
         open_ = ~_close_enough(proven, best_hit)
         if (~open_).any():
             settled = max(settled, float(np.max(proven[~open_])))
@@ -291,13 +355,13 @@ def _refine(bodies, index, threshold, start, table=None):
     return settled  # not reached
 
 
-def _verify(bodies, index, threshold, radius, directions=1500, table=None):
+def _verify(bodies, index, threshold, radius, directions=600, table=None):
     """Belt and braces: sample just outside ``radius``; grow past any sample at threshold."""
     centre = bodies[index].center
     others = np.array([b.center for i, b in enumerate(bodies) if i != index]).reshape(-1, 3)
     unit = fibonacci_directions(directions)
     for _ in range(8):
-        shells = radius * np.array([1.0005, 1.003, 1.01, 1.03])
+        shells = radius * np.array([1.0005, 1.01, 1.03])
         points = (centre + shells[:, None, None] * unit[None]).reshape(-1, 3)
         if len(others):
             own = np.linalg.norm(points - centre, axis=1)

@@ -26,6 +26,12 @@ the cell is on the same side of every threshold as its corners, whatever value i
 there, and so are the interpolated values (between the corner values). A cell that touches
 a body (M2 infinite) or whose corners are not finite is never settled.
 
+Before the corners of the halves of an unsettled cell are evaluated, each half is tried on
+its parent's interpolant: inside the parent B = P + R with |R| <= E2 of the parent, and P
+over a half is the bilinear blend of P's values at the half's corners, so the same test
+with those values and the parent's E2 settles a half without new evaluations. A settled
+cell's points get |P(x)|, which lies in its proven range.
+
 Consequence: the grid holds the exact f at every corner of every grid cell that any
 threshold line crosses, and values on the right side of every threshold everywhere else.
 Marching squares draws a line only through cells whose corners straddle the level, from
@@ -42,7 +48,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from planner.physics.zones.bounds import BodyTable, _ball_geometry, dipole_assignment, model_field
+from planner.physics.zones.bounds import BodyTable, _ball_geometry, body_table, dipole_assignment, model_field
 from planner.physics.zones.certify import derivative_bound
 
 VIEWS = {"plan": (0, 1, 2), "elevation": (0, 2, 1)}  # (across-page, up-page, normal) axes
@@ -79,6 +85,53 @@ def coarsest_step(resolution, cells=8, largest=32):
     while step * 2 <= min(largest, (resolution - 1) / cells):
         step *= 2
     return step
+
+
+def interpolation_remainder(bodies, centres, width, depth, table=None):
+    """Bound on |B - P| over rectangles, P the bilinear interpolant of B from the corners.
+
+    Parameters
+    ----------
+    bodies : list of MagnetBody
+    centres : array (n, 3)
+        Rectangle centres [m].
+    width, depth : arrays (n,)
+        Side lengths h_u, h_v [m] (the rectangles lie in any plane).
+    table : BodyTable, optional
+        Constants of ``bodies`` built beforehand.
+
+    Returns
+    -------
+    ndarray (n,)
+        E2 [T]; +inf where the ball around a rectangle touches a body.
+
+    Notes
+    -----
+    E2 = (h_u^2 + h_v^2) M2 / 8 with M2 a bound on ||D^2 B|| over the ball of radius
+    hypot(h_u, h_v) / 2 about the centre (``certify.derivative_bound``, order 2: the smaller
+    of 4! k m / e^5, from the Legendre expansion of 1/r, and the surface-charge form). Along
+    any unit vector w, w . B - w . P = (g - I_u g) + I_u (g - I_v g) with g = w . B and I_u,
+    I_v linear interpolation along u and v; each part is at most h^2/8 max|g''| (remainder
+    of linear interpolation), and |g''| <= M2. Valid wherever the ball stays outside every
+    body.
+
+    References
+    ----------
+    Abramowitz & Stegun, Handbook of Mathematical Functions (1964), 25.2.4; Jackson,
+    Classical Electrodynamics, 3rd ed. (1999), eq. 3.70.
+
+    Examples
+    --------
+    >>> from planner.physics.bodies import MagnetBody
+    >>> ball = MagnetBody("sphere", [0, 0, 0], np.eye(3), [0, 0, 1.2], diameter=0.01)
+    >>> e2 = interpolation_remainder([ball], np.array([[0.1, 0, 0], [0, 0, 0]]), np.full(2, 0.01), np.full(2, 0.01))
+    >>> bool(0 < e2[0] < 1e-5), bool(np.isinf(e2[1]))
+    (True, True)
+    """
+    centres = np.asarray(centres, dtype=float).reshape(-1, 3)
+    width, depth = np.asarray(width, dtype=float), np.asarray(depth, dtype=float)
+    geometry = _ball_geometry(bodies, centres, body_table(bodies, table))
+    return (width**2 + depth**2) / 8 * derivative_bound(geometry, 0.5 * np.hypot(width, depth), 2)
 
 
 def _bilinear(corners, s, t):
@@ -154,12 +207,10 @@ class _PlaneGrid:
     def remainder(self, nodes, a, b):
         """E2 = (h_u^2 + h_v^2) max||D^2 B|| / 8 [T] over cells (a, b) (inf if one touches a body)."""
         u, v = self.u, self.v
-        width = u[nodes[b + 1]] - u[nodes[b]]
-        depth = v[nodes[a + 1]] - v[nodes[a]]
         centres = plane_points(self.view, self.offset, (u[nodes[b]] + u[nodes[b + 1]]) / 2,
                                (v[nodes[a]] + v[nodes[a + 1]]) / 2)
-        geometry = _ball_geometry(self.bodies, centres, self.table)
-        return (width**2 + depth**2) / 8 * derivative_bound(geometry, 0.5 * np.hypot(width, depth), 2)
+        return interpolation_remainder(self.bodies, centres, u[nodes[b + 1]] - u[nodes[b]],
+                                       v[nodes[a + 1]] - v[nodes[a]], self.table)
 
     def fill(self, nodes, settled, corner_nodes):
         """Give the unknown points whose cell of level ``nodes`` is ``settled`` (mask) the size of the

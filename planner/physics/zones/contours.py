@@ -9,8 +9,8 @@ one line.
 
 The map grid is evaluated adaptively (``refine``): exactly at every corner of every grid
 cell a line can cross, by proven interpolation elsewhere, so the lines are those of the
-fully evaluated grid at a fraction of the cost (about 40 % of the points for 30 magnets
-at seven thresholds).
+fully evaluated grid at a fraction of the cost (for an invented row of 30 magnets at seven
+thresholds, 44 % of the points of a plan and 23 % of an elevation).
 
 References
 ----------
@@ -77,12 +77,37 @@ def _border(magnitude):
 def field_grid(bodies, thresholds, view="plan", offset=0.0, resolution=400, extent=None):
     """Plane grid for the ``thresholds``, its border below the lowest (grown by 1.5x until it is).
 
-    Returns u, v, magnitude as :func:`plane_grid`, with the same values at every corner of
-    every grid cell that a threshold line crosses, and elsewhere values proven to lie on the
-    same side of every threshold as :func:`plane_grid`'s (``refine.refined_plane_grid``), so
-    contour lines and the border test come out the same. ``extent`` (optional) is the
-    first try. An extent is given up as soon as its coarse lattice shows a border point at
-    or above the lowest threshold, before any refinement.
+    Parameters
+    ----------
+    bodies : list of MagnetBody
+    thresholds : array_like
+        Flux densities whose lines the grid is for [T].
+    view, offset, resolution
+        As :func:`field_contours` (offset [m]).
+    extent : sequence of 4 floats, optional
+        First grid tried (u_min, u_max, v_min, v_max) [m].
+
+    Returns
+    -------
+    u (resolution,), v (resolution,), magnitude (resolution, resolution) [m, m, T]
+        As :func:`plane_grid`, with the same values at every corner of every grid cell
+        that a threshold line crosses, and elsewhere values proven to lie on the same side
+        of every threshold as :func:`plane_grid`'s, so contour lines and the border test
+        come out the same.
+
+    Notes
+    -----
+    The grid is refined from a coarse lattice (``refine.refined_plane_grid``): a cell is
+    filled by interpolation when no threshold lies in the proven range of |B| + error over
+    it, from its corner fields and the interpolation remainder (h_u^2 + h_v^2) M2 / 8. An
+    extent is given up as soon as its coarse lattice shows a border point at or above the
+    lowest threshold, before any refinement; the dipole allowance is 0.2 % of the lowest
+    threshold.
+
+    References
+    ----------
+    Abramowitz & Stegun, Handbook of Mathematical Functions (1964), 25.2.4; Jackson,
+    Classical Electrodynamics, 3rd ed. (1999), eq. 3.70.
     """
     thresholds = np.atleast_1d(np.asarray(thresholds, dtype=float))
     lowest = float(np.min(thresholds))
@@ -98,7 +123,13 @@ def field_grid(bodies, thresholds, view="plan", offset=0.0, resolution=400, exte
 
 
 def contour_lines(u, v, magnitude, threshold):
-    """Closed polylines (list of (n, 2) arrays, plane coordinates [m]) of |B| = threshold."""
+    """Closed polylines (list of (n, 2) arrays, plane coordinates [m]) of |B| = threshold.
+
+    ``u``, ``v``, ``magnitude`` as returned by :func:`field_grid` [m, m, T]; ``threshold`` [T].
+    Marching squares (Lorensen & Cline, Computer Graphics 21(4), 163-169 (1987), via
+    contourpy) reads only the corner values of the cells a line crosses. Lines of fewer
+    than three points are dropped; open ones (touching the grid's edge) are closed.
+    """
     generator = contour_generator(x=u, y=v, z=magnitude, line_type=LineType.Separate)
     lines = []
     for line in generator.lines(threshold):

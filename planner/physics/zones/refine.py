@@ -263,18 +263,23 @@ def refined_plane_grid(bodies, thresholds, view, offset, extent, resolution, all
 
     Returns
     -------
-    u (resolution,), v (resolution,), magnitude (resolution, resolution) [m, m, T], or None
-        ``magnitude[j, i]`` is at (u[i], v[j]); the value |B| + error of
-        ``bounds.field_with_error`` at every corner of every grid cell a threshold line
-        crosses, elsewhere a bilinear interpolation on the same side of every threshold.
-        Also returned: the number of points evaluated.
+    u, v, magnitude, evaluated : (resolution,), (resolution,), (resolution, resolution), int
+        Plane coordinates [m], values [T] with ``magnitude[j, i]`` at (u[i], v[j]), and the
+        number of points at which the field was evaluated; None if ``border_limit`` was
+        reached. ``magnitude`` is the value |B| + error of ``bounds.field_with_error`` at
+        every corner of every grid cell a threshold line crosses (1e3 T where the field is
+        not finite, as in ``contours.plane_grid``), and elsewhere the size of the
+        bilinearly interpolated model field, proven to lie on the same side of every
+        threshold as that value.
 
     Notes
     -----
-    See the module docstring for the proof that a filled cell hides no line:
-    |B(x)| lies within [min n . B(c) - E2, max |B(c)| + E2] on a cell with corner fields
-    B(c), E2 = (h_u^2 + h_v^2) max||D^2 B|| / 8, so a cell whose widened interval holds no
-    threshold is filled. Valid for any bodies; cells touching a body are always evaluated.
+    See the module docstring for the proof that a filled cell hides no line: on a cell
+    with corner model fields B_m(c), f = |B_m| + e lies within
+    [min n . B_m(c) - a - E2, max |B_m(c)| + 3a + E2] (n the corners' mean direction, a the
+    allowed error, E2 = (h_u^2 + h_v^2) max||D^2 B|| / 8), widened by a relative 1e-6;
+    a cell whose interval holds no threshold is filled. Valid for any bodies; cells
+    whose ball meets a body's bounding sphere are always refined.
 
     References
     ----------
@@ -294,6 +299,8 @@ def refined_plane_grid(bodies, thresholds, view, offset, extent, resolution, all
     v = np.linspace(extent[2], extent[3], resolution)
     grid = _PlaneGrid(bodies, view, offset, u, v, allowed_error)
     step = coarsest_step(resolution) if step is None else int(step)
+    if step < 1 or step & (step - 1):
+        raise ValueError(f"the coarsest step must be a power of two, not {step}")  # halves must nest
     nodes = lattice(resolution, step)
     rows, columns = np.meshgrid(nodes, nodes, indexing="ij")
     grid.evaluate(rows.ravel(), columns.ravel())

@@ -19,13 +19,16 @@ charge density M . n) and sec. 5.7 (energy of a magnetization in an external fie
 """
 from __future__ import annotations
 
+import math
+
 import numpy as np
 from scipy.constants import mu_0
 
 from planner.physics.bodies import MagnetBody
-from planner.physics.forces.face_rules import (KRONROD_GAUSS_POINTS, field_in_frame_of,
-                                               whole_face_rule)
+from planner.physics.forces.face_rules import (FAR_APART, FAR_RULE, INTERVAL_POINTS,
+                                               field_in_frame_of, whole_face_rule)
 from planner.physics.forces.quadrature import adaptive_box_integral
+from planner.physics.forces.quadrature_rules import extrapolated_error
 
 #: Quadrature points are set this fraction of the target size inside the target, so that
 #: at contact they see the source field from the target's side of the shared surface.
@@ -224,19 +227,28 @@ def force_and_torque_by_charges(target: MagnetBody, source: MagnetBody, rtol: fl
     >>> bool(np.allclose(force, 0.0, atol=1e-12)), bool(np.allclose(torque, 0.0, atol=1e-12))
     (True, True)
     """
-    rule = whole_face_rule(*_rule_key(target))
+    apart = target.center - source.center
+    reach = target.bounding_radius + source.bounding_radius
+    far = apart @ apart >= (FAR_APART * reach) ** 2
+    rule = whole_face_rule(*_rule_key(target), *(FAR_RULE if far else ()))
     if rule is None:
         return np.zeros(3), np.zeros(3)
     local_field = field_in_frame_of(target, source, field)
     length = rule.length
 
-    # first pass: the whole-face rule on every face, in one field call
+    # first pass: the whole-face rule on every face, in one field call; each face's error
+    # is the sum over its two parameters of the error extrapolated from the coarser rules
     sums = (rule.moments @ local_field(rule.points).ravel()).reshape(len(rule.faces),
                                                                      rule.columns, 6)
     value = sums[:, 0]
-    error = _size(sums[:, :1] - sums[:, 1:]).sum(axis=1)
+    differences = np.empty((len(rule.faces), 4, 2, 3))
+    np.subtract(sums[:, :1], sums[:, 1:], out=differences.reshape(len(rule.faces), 4, 6))
+    differences[:, 1::2] = differences[:, 0::2] - differences[:, 1::2]  # Q_once - Q_twice
+    sizes = np.sqrt((differences * differences).sum(axis=3)).sum(axis=2)
+    error = extrapolated_error(sizes[:, 0::2], sizes[:, 1::2]).sum(axis=1)
     total = value.sum(axis=0)
-    bound = max(rtol * float(_size(total)), _floor(target, source))
+    force_size, torque_size = math.hypot(*total[:3]), math.hypot(*total[3:])
+    bound = max(rtol * (force_size + torque_size), _floor(target, source))
     if error.sum() > bound:
         # refine the faces with the largest errors, enough to leave at most half the bound
         # on the others, by adaptive subdivision with the rest of the budget
@@ -256,7 +268,7 @@ def force_and_torque_by_charges(target: MagnetBody, source: MagnetBody, rtol: fl
 
         boxes = [box for f in refine for box in _initial_boxes(*rule.faces[f])]
         refined = adaptive_box_integral(rule.maps, boxes, integrand, _size, rtol=0.0,
-                                        orders=KRONROD_GAUSS_POINTS, absolute_floor=budget)
+                                        orders=INTERVAL_POINTS, absolute_floor=budget)
         total = total - value[refine].sum(axis=0) + refined
     rotation = target.rotation
     return rotation @ total[:3], rotation @ total[3:] * length
@@ -274,10 +286,11 @@ def _rule_key(body: MagnetBody):
     Polarization components below 1e-12 of the largest (rounding left by rotations) are
     set to zero, so that no face with a vanishing charge is integrated.
     """
-    J = body.polarization_body
-    J = np.where(np.abs(J) > 1e-12 * np.abs(J).max(), J, 0.0)
+    J = (body.rotation.T @ body.polarization).tolist()
+    largest = max(abs(v) for v in J)
+    J = tuple(v if abs(v) > 1e-12 * largest else 0.0 for v in J)
     return (body.shape, float(body.diameter), float(body.height), float(body.inner_diameter),
-            tuple(float(v) for v in body.size), tuple(float(v) for v in J))
+            tuple(body.size.tolist()), J)
 
 
 def interaction_energy(target: MagnetBody, source: MagnetBody, rtol: float = 1e-6,
@@ -338,7 +351,7 @@ def _to_global(body_map, rotation, center):
 
 def _floor(target, source):
     """An absolute error floor: 1e-12 of the force scale J1 J2 A / mu0 of the pair."""
-    j_target = float(np.sqrt(target.polarization @ target.polarization))
-    j_source = float(np.sqrt(source.polarization @ source.polarization))
+    j_target = math.sqrt(target.polarization @ target.polarization)
+    j_source = math.sqrt(source.polarization @ source.polarization)
     return 1e-12 * j_target * j_source * min(target.bounding_radius,
                                              source.bounding_radius) ** 2 / mu_0

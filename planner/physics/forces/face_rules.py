@@ -10,30 +10,38 @@ so that the error estimate costs no extra field values:
 * an angle that runs over a full turn (end discs and curved faces of cylinders and rings,
   the sphere's azimuth): the trapezoidal rule, which converges exponentially for smooth
   periodic integrands and is exact for an integrand that does not depend on the angle (a
-  coaxial pair); its embedded rule takes every other node;
+  coaxial pair); its coarser rules take every second and every fourth node;
 * every other parameter (radius, height, a block face's sides, the sphere's polar angle):
-  a Gauss-Kronrod rule with its embedded Gauss rule.
+  the 7-point Kronrod rule with the 3-point Gauss rule and the midpoint inside it.
 
 References
 ----------
 Trefethen & Weideman, SIAM Review 56, 385-458 (2014) (trapezoidal rule); Laurie, Math.
-Comp. 66, 1133-1145 (1997) (Gauss-Kronrod); Furlani, *Permanent Magnet and
+Comp. 66, 1133-1145 (1997) and Patterson, Math. Comp. 22, 847-856 (1968) (nested rules); Furlani, *Permanent Magnet and
 Electromechanical Devices* (2001), sec. 3.4 (charge model).
 """
 from __future__ import annotations
 
+import math
 from functools import lru_cache
 from typing import NamedTuple
 
 import numpy as np
 
 from planner.physics.bodies import MagnetBody
+from planner.physics.fields import (FAR_FIELD_RADII, block_field, cylinder_field, field_of_body,
+                                    ring_field, sphere_field)
 from planner.physics.forces.quadrature_rules import nested_tensor_rule
 
 #: Nodes of the whole-face rule along an angle over a full turn (trapezoidal rule).
 ANGLE_POINTS = 16
-#: Gauss points n of the Gauss-Kronrod rule (2n + 1 nodes) along every other parameter.
-KRONROD_GAUSS_POINTS = 3
+#: Nodes of the nested rule (1, 3, 7 or 15 points) along every other parameter.
+INTERVAL_POINTS = 7
+#: The smaller rule (7 nodes along a parameter, 12 along a full turn) for a target whose
+#: centre is at least this many times (R_source + R_target) from the source's, R being
+#: bounding radii; such faces see a field that varies slowly across them.
+FAR_APART = 2.0
+FAR_RULE = (7, 12)
 
 
 class WholeFaceRule(NamedTuple):
@@ -47,8 +55,10 @@ class WholeFaceRule(NamedTuple):
     length: float
 
 
+@lru_cache(maxsize=256)
 def whole_face_rule(shape: str, diameter: float, height: float, inner_diameter: float,
-                    size: tuple, polarization: tuple) -> WholeFaceRule | None:
+                    size: tuple, polarization: tuple, interval_points: int = INTERVAL_POINTS,
+                    angle_points: int = ANGLE_POINTS) -> WholeFaceRule | None:
     """Nodes and weights of the first-pass rule on every charged face of a body at the origin.
 
     Parameters
@@ -56,7 +66,12 @@ def whole_face_rule(shape: str, diameter: float, height: float, inner_diameter: 
     shape, diameter, height, inner_diameter, size, polarization
         The fields of a :class:`~planner.physics.bodies.MagnetBody` placed at the origin
         with the identity rotation, ``polarization`` being J in the body frame [T]; sizes
-        [m]. Hashable (tuples), so the result is cached.
+        [m]. Floats and tuples of floats, so that the result can be cached.
+    interval_points : int
+        Nodes (3, 7 or 15) of the nested rule along each parameter that is not a full
+        turn [-].
+    angle_points : int
+        Nodes of the trapezoidal rule along a full turn (a multiple of 4) [-].
 
     Returns
     -------
@@ -64,9 +79,10 @@ def whole_face_rule(shape: str, diameter: float, height: float, inner_diameter: 
         ``maps`` and ``faces`` as from
         :func:`~planner.physics.forces.charge_model.surface_charge_patches` with
         ``whole_faces=True``; ``points`` (N, 3) the nodes of all faces [m];
-        ``moments`` (F * c * 6, 3 N) [A m]; ``columns`` = c, the rule columns per face
-        (0 the full rule, 1 + i the rule lowered along parameter i); ``length`` the
-        bounding radius R [m]. None if no face carries charge.
+        ``moments`` (F * c * 6, 3 N) [A m]; ``columns`` = c = 5, the rule columns per
+        face (0 the full rule; 1 + 2i and 2 + 2i the rule coarsened once and twice along
+        parameter i, :func:`~planner.physics.forces.quadrature_rules.nested_tensor_rule`);
+        ``length`` the bounding radius R [m]. None if no face carries charge.
 
     Notes
     -----
@@ -75,7 +91,8 @@ def whole_face_rule(shape: str, diameter: float, height: float, inner_diameter: 
     [N] and the torque integral of r x sigma B dA divided by R [N]: the charge, the
     Jacobian, the rule weights and the lever arms r are folded into one matrix, so the
     sums cost a single matrix-vector product. A face's error estimate is the sum over its
-    parameters of the differences between the full and the lowered rule.
+    parameters of the error extrapolated from the two coarser rules
+    (:func:`~planner.physics.forces.quadrature_rules.extrapolated_error`).
 
     References
     ----------
@@ -83,16 +100,10 @@ def whole_face_rule(shape: str, diameter: float, height: float, inner_diameter: 
 
     Examples
     --------
-    >>> rule = whole_face_rule("cylinder", 0.01, 0.005, 0.0, (0.0, 0.0, 0.0), (0.0, 0.0, 1.0))
+    >>> rule = whole_face_rule("cylinder", 0.01, 0.005, 0.0, (0.0,) * 3, (0.0, 0.0, 1.0))
     >>> rule.points.shape, rule.moments.shape  # two end discs of 7 x 16 nodes
-    ((224, 3), (36, 672))
+    ((224, 3), (60, 672))
     """
-    return _cached_rule(shape, float(diameter), float(height), float(inner_diameter),
-                        tuple(float(v) for v in size), tuple(float(v) for v in polarization))
-
-
-@lru_cache(maxsize=256)
-def _cached_rule(shape, diameter, height, inner_diameter, size, polarization):
     from planner.physics.forces.charge_model import surface_charge_patches
 
     body = MagnetBody(shape, np.zeros(3), np.eye(3), polarization, diameter=diameter,
@@ -100,11 +111,11 @@ def _cached_rule(shape, diameter, height, inner_diameter, size, polarization):
     maps, faces = surface_charge_patches(body, whole_faces=True)
     if not faces:
         return None
-    columns = 3  # every face has two parameters
+    columns = 5  # every face has two parameters, each with two coarser rules
     blocks = []
     for index, low, high, periodic in faces:
-        kinds = tuple(("periodic", ANGLE_POINTS) if axis == periodic
-                      else ("kronrod", KRONROD_GAUSS_POINTS) for axis in range(2))
+        kinds = tuple(("periodic", angle_points) if axis == periodic
+                      else ("interval", interval_points) for axis in range(2))
         nodes, rule_weights = nested_tensor_rule(kinds)
         low, high = np.asarray(low), np.asarray(high)
         points, measure = maps[index](low + (high - low) * nodes)
@@ -163,18 +174,16 @@ def field_in_frame_of(target: MagnetBody, source: MagnetBody, field=None):
     Derby & Olbert, Am. J. Phys. 78, 229-235 (2010) and the other field references of
     :mod:`planner.physics.fields`.
     """
-    from planner.physics.fields import (FAR_FIELD_RADII, block_field, cylinder_field,
-                                        field_of_body, ring_field, sphere_field)
-
     rotation, center = target.rotation, target.center
-    reach = np.linalg.norm(target.center - source.center) + target.bounding_radius
-    if field is not None or reach > 0.5 * FAR_FIELD_RADII * source.bounding_radius:
+    apart = center - source.center
+    if field is not None or math.sqrt(apart @ apart) + target.bounding_radius > \
+            0.5 * FAR_FIELD_RADII * source.bounding_radius:
         global_field = field or (lambda points: field_of_body(source, points))
         return lambda points: np.asarray(global_field(center + points @ rotation.T),
                                          dtype=float).reshape(-1, 3) @ rotation
     turn = source.rotation.T @ rotation
-    shift = source.rotation.T @ (center - source.center)
-    J = source.polarization_body
+    shift = source.rotation.T @ apart
+    J = source.rotation.T @ source.polarization
     if source.shape == "cylinder":
         def closed_form(q):
             return cylinder_field(q, source.diameter, source.height, J)

@@ -5,10 +5,12 @@ the faces (or the volume) of the target body. Each face is a box in its own para
 (for example radius and angle on an end disc). This module integrates such integrands to a
 requested relative accuracy:
 
-1. every box is integrated with two rules, either two successive Gauss-Legendre orders or a
-   Gauss rule and its Kronrod extension, which reuses the Gauss nodes; the difference of the
-   two results is the error estimate of the better one (in fact of the lower one, so it is
-   an overestimate wherever the rules converge);
+1. every box is integrated with two successive Gauss-Legendre orders, whose difference is
+   the error estimate of the higher one (in fact of the lower one, so an overestimate
+   wherever the rules converge); or with the nested rules of 1, 3 and 7 points per
+   parameter (midpoint, Gauss, Kronrod), which reuse each other's nodes and whose two
+   differences give the rate of convergence and an extrapolated error estimate of the
+   7-point rule (:func:`~planner.physics.forces.quadrature_rules.extrapolated_error`);
 2. while the summed error estimate exceeds ``rtol`` times the size of the total, the boxes
    carrying most of the error are bisected into 2^d children. The error sits where a face
    nearly touches the source, so the subdivision closes in on the closest point there and
@@ -16,9 +18,9 @@ requested relative accuracy:
 
 All field evaluations of one round go into a single vectorised call.
 
-The nested (Gauss-Kronrod) rules also tell which parameter carries the error: the
-Kronrod tensor rule is compared with the rules that drop to Gauss along one parameter at a
-time, and a box is bisected only along the parameters whose estimate is large.
+The nested rules also tell which parameter carries the error: the full tensor rule is
+compared with the rules coarsened along one parameter at a time, and a box is bisected only
+along the parameters whose estimate is large.
 
 References
 ----------
@@ -36,7 +38,7 @@ from typing import Callable, Sequence
 
 import numpy as np
 
-from planner.physics.forces.quadrature_rules import (nested_tensor_rule,  # noqa: F401
+from planner.physics.forces.quadrature_rules import (extrapolated_error, nested_tensor_rule,
                                                      tensor_gauss_rule)
 
 DEFAULT_ORDERS = (4, 6)
@@ -73,8 +75,8 @@ def adaptive_box_integral(
     rtol : float
         Requested relative accuracy of the total [-].
     orders : (int, int) or int
-        Two successive Gauss-Legendre orders per dimension, or n for the n-point Gauss rule
-        nested in its (2n + 1)-point Kronrod extension (:func:`box_rule`).
+        Two successive Gauss-Legendre orders per dimension, or the points (7 or 15) of the
+        finest of the nested rules per dimension (:func:`box_rule`).
     max_rounds, max_boxes : int
         Safety limits; refinement stops when either is reached.
     absolute_floor : float
@@ -157,8 +159,8 @@ def box_rule(orders: tuple[int, int] | int, dimension: int) -> tuple[np.ndarray,
     Parameters
     ----------
     orders : (int, int) or int
-        Two Gauss-Legendre orders (the nodes of both, side by side), or n for the nested
-        Gauss-Kronrod rule with 2n + 1 nodes per parameter.
+        Two Gauss-Legendre orders (the nodes of both, side by side), or the points n (7 or
+        15) of the finest nested rule per parameter.
     dimension : int
         Number of parameters d [-].
 
@@ -167,24 +169,26 @@ def box_rule(orders: tuple[int, int] | int, dimension: int) -> tuple[np.ndarray,
     nodes : ndarray (m, d)
     weights : ndarray (m, c)
         Column 0 the better rule. Two orders: column 1 the lower order (c = 2). Nested:
-        column 1 + j the rule lowered to Gauss along parameter j (c = 1 + d).
+        columns 1 + 2j, 2 + 2j the rule coarsened once and twice along parameter j
+        (c = 1 + 2d; :func:`~planner.physics.forces.quadrature_rules.nested_tensor_rule`).
 
     Notes
     -----
-    The error parts of a box are ``error_size(Q_0 - Q_j)`` for j = 1 .. c - 1.
+    The error parts of a box (:func:`box_sums`): ``error_size(Q_0 - Q_1)`` for two orders;
+    for the nested rules one extrapolated estimate per parameter.
 
     References
     ----------
-    Davis & Rabinowitz (1984), sec. 5.6 and 6.2; Laurie, Math. Comp. 66, 1133 (1997).
+    Davis & Rabinowitz (1984), sec. 5.6 and 6.2; Patterson, Math. Comp. 22, 847 (1968).
 
     Examples
     --------
-    >>> nodes, weights = box_rule(3, 2)
+    >>> nodes, weights = box_rule(7, 2)
     >>> nodes.shape, weights.shape
-    ((49, 2), (49, 3))
+    ((49, 2), (49, 5))
     """
     if np.ndim(orders) == 0:
-        return nested_tensor_rule((("kronrod", int(orders)),) * dimension)
+        return nested_tensor_rule((("interval", int(orders)),) * dimension)
     rule_low, rule_high = (tensor_gauss_rule(order, dimension) for order in orders)
     n_low, n_high = len(rule_low[1]), len(rule_high[1])
     weights = np.zeros((n_low + n_high, 2))
@@ -262,11 +266,17 @@ def box_sums(values, rule_weights, error_size):
     -------
     value : ndarray (b, k)
         The better rule (column 0).
-    error : ndarray (b, c - 1)
-        ``error_size(Q_0 - Q_j)`` for each lower rule j.
+    error : ndarray (b, p)
+        Two orders (c = 2): ``error_size(Q_0 - Q_1)``, p = 1. Nested rules (c = 1 + 2d):
+        for each parameter j the extrapolated estimate from ``error_size(Q_0 - Q_1+2j)``
+        and ``error_size(Q_1+2j - Q_2+2j)``, p = d.
     """
     sums = np.einsum("bmk,mc->bck", values, rule_weights)
-    return sums[:, 0], error_size(sums[:, :1] - sums[:, 1:])
+    if sums.shape[1] == 2:
+        return sums[:, 0], error_size(sums[:, :1] - sums[:, 1:])
+    once, twice = sums[:, 1::2], sums[:, 2::2]
+    return sums[:, 0], extrapolated_error(error_size(sums[:, :1] - once),
+                                          error_size(once - twice))
 
 
 def _bisect(face, low, high, along):

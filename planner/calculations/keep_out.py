@@ -15,7 +15,7 @@ import numpy as np
 
 from planner.assessment import Contour, KeepOut, Threshold, ZoneReach
 from planner.materials import MAX_PERMANENT_MAGNET_REMANENCE_T
-from planner.physics.zones import field_contours, keep_out_radii, zone_reach
+from planner.physics.zones import field_contours, keep_out_table, zone_reach
 from planner.setup import Setup
 from planner.setup.geometry import bodies_of
 
@@ -47,9 +47,10 @@ def keep_out_distances(setup: Setup, thresholds: list[Threshold]) -> list[KeepOu
     if not bodies or not rows:
         return []
     values = np.unique([t.value for t in rows])  # thresholds of equal value share one computation
+    table = keep_out_table(bodies, values)  # one magnet per worker process, on every core
     result = []
     for index, magnet in enumerate(setup.magnets):
-        radius_of = dict(zip(values.tolist(), keep_out_radii(bodies, index, values)))
+        radius_of = dict(zip(values.tolist(), table[index]))
         result += [KeepOut(threshold_id=t.id, threshold_T=t.value, magnet_id=magnet.id,
                            distance_m=float(radius_of[t.value]), origin=t.origin, source=t.source) for t in rows]
     return result

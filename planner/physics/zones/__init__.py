@@ -7,6 +7,7 @@ Each figure errs outward; the module docstrings say how.
 from planner.physics.zones.contours import field_contours, field_grid, contour_lines
 from planner.physics.zones.keep_out import farthest_start_radius, keep_out_radii, keep_out_radius
 from planner.physics.zones.reach import zone_reach
+from planner.physics.zones.table import keep_out_table
 
 __all__ = [
     "contour_lines",
@@ -15,5 +16,6 @@ __all__ = [
     "field_grid",
     "keep_out_radii",
     "keep_out_radius",
+    "keep_out_table",
     "zone_reach",
 ]

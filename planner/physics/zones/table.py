@@ -1,0 +1,66 @@
+"""Keep-out distances of every magnet at every threshold, spread over the machine's cores.
+
+The distances of different magnets are independent computations
+(:func:`planner.physics.zones.keep_out_radii` per magnet), so they run in separate worker
+processes when the machine has more than one core and the platform can fork (the workers
+inherit the loaded program instead of importing it again). The numbers are the same as
+computed one by one: each worker runs the same pure function on the same input.
+"""
+from __future__ import annotations
+
+import multiprocessing
+import os
+from concurrent.futures import ProcessPoolExecutor
+
+import numpy as np
+
+from planner.physics.bodies import MagnetBody
+from planner.physics.zones.keep_out import keep_out_radii
+
+__all__ = ["keep_out_table", "available_workers"]
+
+
+def available_workers() -> int:
+    """Cores this process may use (1 where worker processes cannot be forked)."""
+    if "fork" not in multiprocessing.get_all_start_methods():
+        return 1
+    try:
+        return max(len(os.sched_getaffinity(0)), 1)
+    except AttributeError:  # platforms without CPU affinity
+        return max(os.cpu_count() or 1, 1)
+
+
+def keep_out_table(bodies: list[MagnetBody], thresholds, workers: int | None = None) -> np.ndarray:
+    """Keep-out distance [m] of each body (rows) at each threshold [T] (columns).
+
+    Parameters
+    ----------
+    bodies : list of MagnetBody
+        All magnets; each distance uses their total field.
+    thresholds : array_like (k,)
+        Flux densities [T], each > 0.
+    workers : int, optional
+        Worker processes; default: the cores available. 1 computes in this process.
+
+    Returns
+    -------
+    ndarray (len(bodies), k)
+        Row i is ``keep_out_radii(bodies, i, thresholds)``.
+
+    Notes
+    -----
+    The largest magnets are started first (their distances take longest), so the work
+    spreads evenly over the workers.
+    """
+    thresholds = np.atleast_1d(np.asarray(thresholds, dtype=float))
+    count = len(bodies)
+    workers = min(available_workers() if workers is None else int(workers), count)
+    if workers <= 1:
+        return np.array([keep_out_radii(bodies, i, thresholds) for i in range(count)]).reshape(count, -1)
+    order = np.argsort([-float(np.linalg.norm(body.moment)) for body in bodies], kind="stable")
+    result = np.empty((count, len(thresholds)))
+    with ProcessPoolExecutor(max_workers=workers, mp_context=multiprocessing.get_context("fork")) as pool:
+        futures = {int(i): pool.submit(keep_out_radii, bodies, int(i), thresholds) for i in order}
+        for i, future in futures.items():
+            result[i] = future.result()
+    return result

@@ -359,6 +359,9 @@ def test_generator_textbook_example_earth_field_coil():
     # book's solutions manual (value seen in the manual's worked solution; read, not recalled).
     figures = generator_figures(10, 55.0e-6, np.pi * 0.05 * 0.02, 100.0, np.inf)
     assert figures.emf_amplitude == pytest.approx(18.1e-6, rel=3e-3)
+    # open circuit (identity, the limit R_load -> inf): no current or power, the whole EMF at the terminals
+    assert figures.current_amplitude == 0.0 and figures.mean_power == 0.0 and figures.load_power == 0.0
+    assert figures.load_voltage_amplitude == figures.emf_amplitude
 
 
 def test_generator_inductance_reduces_current():

@@ -89,14 +89,18 @@ def generator_figures(turns, field, area, speed_rpm, load_resistance, coil_resis
     total = load_resistance + coil_resistance
     impedance = np.hypot(total, omega * coil_inductance)
     current = amplitude / impedance
-    power = current**2 * total / 2.0
+    if np.isinf(load_resistance):  # open circuit: no current, the whole EMF across the terminals
+        load_voltage, power, load_power = amplitude, 0.0, 0.0
+    else:
+        load_voltage = current * load_resistance
+        power, load_power = current**2 * total / 2.0, current**2 * load_resistance / 2.0
     return GeneratorFigures(
         emf_amplitude=float(amplitude),
         emf_rms=float(amplitude / np.sqrt(2.0)),
         current_amplitude=float(current),
-        load_voltage_amplitude=float(current * load_resistance),
+        load_voltage_amplitude=float(load_voltage),
         mean_power=float(power),
-        load_power=float(current**2 * load_resistance / 2.0),
+        load_power=float(load_power),
         mean_torque=float(power / omega) if omega > 0 else 0.0,
         inductance_ratio=float(omega * coil_inductance / total) if total > 0 else float("inf"),
     )

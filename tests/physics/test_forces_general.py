@@ -306,3 +306,128 @@ def test_force_and_torque_turn_with_the_pair(name):
     scale = np.linalg.norm(force)
     assert np.linalg.norm(force_t - turn @ force) <= 1e-5 * scale
     assert np.linalg.norm(torque_t - turn @ torque) <= 1e-5 * (scale * b.bounding_radius + np.linalg.norm(torque))
+
+
+# --- accuracy of the estimate at the default rtol, against tight references ----------------
+
+def plain_reference(target, source, rtol=1e-8):
+    """Force and torque by the plain adaptive quadrature: two Gauss orders (8, 12), their
+    difference as error estimate, over the general field function; independent of the
+    whole-face first pass, of the extrapolated estimate and of the target-frame field."""
+    from planner.physics.forces.charge_model import surface_charge_patches
+    from planner.physics.forces.quadrature import adaptive_box_integral
+
+    maps, boxes = surface_charge_patches(target)
+    R, c, L = target.rotation, target.center, target.bounding_radius
+
+    def to_global(body_map):
+        def mapped(u):
+            points, measure = body_map(u)
+            return c + points @ R.T, measure
+        return mapped
+
+    def integrand(points, weight):
+        B = field_of_body(source, points)
+        values = np.concatenate([B, np.cross(points - c, B) / L], axis=1)
+        return values * weight[:, None]
+
+    def size(v):
+        return np.linalg.norm(v[..., :3], axis=-1) + np.linalg.norm(v[..., 3:], axis=-1)
+    total = adaptive_box_integral([to_global(m) for m in maps], boxes, integrand, size,
+                                  rtol=rtol, orders=(8, 12))
+    return total[:3], total[3:] * L
+
+
+SOURCE_CYLINDER = MagnetBody("cylinder", [0, 0, 0], np.eye(3), [0, 0, 1.3], diameter=10e-3, height=5e-3)
+TILT_30 = rotation_from_axis([0.5, 0, np.sqrt(3) / 2])
+RING = MagnetBody("ring", [0, 0, 0], np.eye(3), [0.3, 0, 1.2], diameter=12e-3, inner_diameter=5e-3, height=4e-3)
+BLOCK = MagnetBody("block", [0, 0, 0], np.eye(3), [0, 0, 1.2], size=[10e-3, 6e-3, 5e-3])
+ACCURACY_CASES = {  # (source, target before placing, gap along -z or toward the source [m])
+    "coaxial 1 mm": (SOURCE_CYLINDER, MagnetBody("cylinder", [0, 0, .02], np.eye(3), [0, 0, 1.2],
+                                                 diameter=8e-3, height=4e-3), 1e-3),
+    "offset 1 mm": (SOURCE_CYLINDER, MagnetBody("cylinder", [3e-3, 1e-3, .02], np.eye(3), [0, 0, 1.2],
+                                                diameter=8e-3, height=4e-3), 1e-3),
+    "offset 0.1 mm, rim over rim": (SOURCE_CYLINDER, MagnetBody("cylinder", [3e-3, 1e-3, .02], np.eye(3),
+                                                                [0, 0, 1.2], diameter=8e-3, height=4e-3), 1e-4),
+    "tilted at contact": (SOURCE_CYLINDER, MagnetBody("cylinder", [1e-3, 0, .02], TILT_30, 1.2 * TILT_30[:, 2],
+                                                      diameter=8e-3, height=4e-3), 0.0),
+    "tilted 20 mm": (SOURCE_CYLINDER, MagnetBody("cylinder", [1e-3, 0, .02], TILT_30, 1.2 * TILT_30[:, 2],
+                                                 diameter=8e-3, height=4e-3), 20e-3),
+    "tilted block on block 0.3 mm": (BLOCK, PAIRS["block-tilted cylinder"][1].__class__(
+        "block", [3e-3, 1e-3, .02], TILT, 1.1 * TILT[:, 2], size=[4e-3, 5e-3, 6e-3]), 3e-4),
+    "diametral cylinder on block 2 mm": (BLOCK, PAIRS["block-tilted cylinder"][1], 2e-3),
+    "ring near a tilted block": (MagnetBody("block", [3e-3, 1e-3, .02], TILT, 1.1 * TILT[:, 2],
+                                            size=[4e-3, 5e-3, 6e-3]), RING, 3e-4),
+    "sphere above a ring": (RING, PAIRS["ring-sphere"][1], 2e-3),
+}
+
+
+@pytest.mark.parametrize("name", ACCURACY_CASES)
+def test_default_tolerance_is_met(name):
+    # independent computation: the plain adaptive quadrature at rtol 1e-8 (plain_reference);
+    # the contract of force_and_torque_by_charges: |dF| + |dT|/R <= rtol (|F| + |T|/R)
+    source, target, gap = ACCURACY_CASES[name]
+    toward = source.center - target.center
+    target = place_at_gap(target, source, toward / np.linalg.norm(toward), gap)
+    force_ref, torque_ref = plain_reference(target, source)
+    L = target.bounding_radius
+    scale = np.linalg.norm(force_ref) + np.linalg.norm(torque_ref) / L
+    for rtol in (1e-3, 1e-2):
+        force, torque = force_and_torque_by_charges(target, source, rtol=rtol)
+        error = np.linalg.norm(force - force_ref) + np.linalg.norm(torque - torque_ref) / L
+        assert error <= rtol * scale
+
+
+def test_well_separated_pair_needs_one_field_call():
+    # the whole-face first pass: a pair 20 mm apart is done in one evaluation of the field,
+    # and its result agrees with the Vokoun et al. (2009) closed form for coaxial cylinders
+    target = place_at_gap(ACCURACY_CASES["coaxial 1 mm"][1], SOURCE_CYLINDER, [0, 0, -1], 20e-3)
+    calls = []
+
+    def counted(points):
+        calls.append(len(points))
+        return field_of_body(SOURCE_CYLINDER, points)
+    force, _ = force_and_torque_by_charges(target, SOURCE_CYLINDER, field=counted)
+    assert len(calls) == 1
+    exact = coaxial_cylinders_axial_force(5e-3, 0, 5e-3, 1.3, 4e-3, 0, 4e-3, 1.2,
+                                          target.center[2])
+    assert force[2] == pytest.approx(exact, rel=1e-3)
+
+
+# --- the nested quadrature rules ------------------------------------------------------------
+
+def test_nested_interval_rules_match_published_nodes_and_degrees():
+    # Patterson (1968), Math. Comp. 22, 847, table of the 15-point rule (positive nodes on
+    # [-1, 1], recalled from memory, 10 digits); exactness degrees 5, 11, 23 are the defining
+    # property (mathematical identity: the Legendre polynomials P_k, k >= 1, integrate to 0)
+    from planner.physics.forces.quadrature_rules import nested_interval_rule
+
+    nodes, weights = nested_interval_rule(15)
+    published = [0.0, 0.2233866864, 0.4342437493, 0.6211029467, 0.7745966692, 0.8884592328,
+                 0.9604912687, 0.9938319632]
+    assert np.allclose(2 * nodes[7:] - 1, published, atol=1e-10)
+    legendre = np.polynomial.legendre.legvander(2 * nodes - 1, 24)
+    for column, degree in enumerate((23, 11, 5)):
+        integrals = weights[:, column] @ legendre
+        assert integrals[0] == pytest.approx(1.0, abs=1e-14)
+        assert np.allclose(integrals[1:degree + 1], 0.0, atol=1e-14)
+        assert abs(integrals[degree + 1]) > 1e-3  # and not beyond
+        assert np.all(weights[:, column] >= 0)
+
+
+def test_extrapolated_estimate_covers_the_true_error():
+    # closed-form integrals (mathematical identities): over one period,
+    # integral_0^1 dx / (2 - cos 2 pi x) = 1/sqrt(3); on [0, 1], integral dx / (1 + 25 x^2)
+    # = atan(5)/5 and integral exp(x) = e - 1
+    from planner.physics.forces.quadrature_rules import (extrapolated_error,
+                                                         nested_interval_rule, periodic_rule)
+    cases = [(periodic_rule(m), lambda x: 1 / (2 - np.cos(2 * np.pi * x)), 1 / np.sqrt(3))
+             for m in (8, 12, 16, 24)]
+    cases += [(nested_interval_rule(n), lambda x: 1 / (1 + 25 * x**2), np.arctan(5) / 5)
+              for n in (7, 15)]
+    cases += [(nested_interval_rule(n), np.exp, np.e - 1) for n in (7, 15)]
+    for (nodes, weights), function, exact in cases:
+        full, once, twice = weights.T @ function(nodes)
+        estimate = extrapolated_error(abs(full - once), abs(once - twice))
+        assert abs(full - exact) <= estimate + 1e-15
+        assert estimate <= abs(full - once) + 1e-15  # never more than the plain difference

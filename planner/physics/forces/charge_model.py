@@ -238,25 +238,25 @@ def force_and_torque_by_charges(target: MagnetBody, source: MagnetBody, rtol: fl
 
     # first pass: the whole-face rule on every face, in one field call; each face's error
     # is the sum over its two parameters of the error extrapolated from the coarser rules
-    sums = (rule.moments @ local_field(rule.points).ravel()).reshape(len(rule.faces),
-                                                                     rule.columns, 6)
-    value = sums[:, 0]
-    differences = np.empty((len(rule.faces), 4, 2, 3))
-    np.subtract(sums[:, :1], sums[:, 1:], out=differences.reshape(len(rule.faces), 4, 6))
-    differences[:, 1::2] = differences[:, 0::2] - differences[:, 1::2]  # Q_once - Q_twice
-    sizes = np.sqrt((differences * differences).sum(axis=3)).sum(axis=2)
-    error = extrapolated_error(sizes[:, 0::2], sizes[:, 1::2]).sum(axis=1)
-    total = value.sum(axis=0)
-    force_size, torque_size = math.hypot(*total[:3]), math.hypot(*total[3:])
-    bound = max(rtol * (force_size + torque_size), _floor(target, source))
-    if error.sum() > bound:
+    sums = rule.moments @ local_field(rule.points).ravel()
+    total = sums[:6]
+    per_face = sums[6:].reshape(-1, 5, 6)
+    differences = per_face[:, 1:].reshape(-1, 2, 2, 2, 3)  # face, parameter, difference, F|T
+    sizes = np.sqrt((differences * differences).sum(axis=4)).sum(axis=3)
+    error = extrapolated_error(sizes[:, :, 0], sizes[:, :, 1]).sum(axis=1)
+    error_sum = float(error.sum())
+    fx, fy, fz, tx, ty, tz = total.tolist()
+    bound = rtol * (math.hypot(fx, fy, fz) + math.hypot(tx, ty, tz))
+    if error_sum > bound:  # the absolute floor matters only for totals that vanish
+        bound = max(bound, _floor(target, source))
+    if error_sum > bound:
         # refine the faces with the largest errors, enough to leave at most half the bound
         # on the others, by adaptive subdivision with the rest of the budget
         order = np.argsort(error)[::-1]
-        excess = error.sum() - bound
+        excess = error_sum - bound
         count = int(np.searchsorted(np.cumsum(error[order]), excess + bound / 2)) + 1
         refine = order[:count]
-        budget = bound - (error.sum() - error[refine].sum())
+        budget = bound - (error_sum - error[refine].sum())
 
         def integrand(points, charge):
             """sigma B and sigma (r x B) / R at target-frame points, times the weight."""
@@ -269,7 +269,7 @@ def force_and_torque_by_charges(target: MagnetBody, source: MagnetBody, rtol: fl
         boxes = [box for f in refine for box in _initial_boxes(*rule.faces[f])]
         refined = adaptive_box_integral(rule.maps, boxes, integrand, _size, rtol=0.0,
                                         orders=INTERVAL_POINTS, absolute_floor=budget)
-        total = total - value[refine].sum(axis=0) + refined
+        total = total - per_face[refine, 0].sum(axis=0) + refined
     rotation = target.rotation
     return rotation @ total[:3], rotation @ total[3:] * length
 

@@ -51,7 +51,6 @@ class WholeFaceRule(NamedTuple):
     faces: list
     points: np.ndarray
     moments: np.ndarray
-    columns: int
     length: float
 
 
@@ -79,19 +78,21 @@ def whole_face_rule(shape: str, diameter: float, height: float, inner_diameter: 
         ``maps`` and ``faces`` as from
         :func:`~planner.physics.forces.charge_model.surface_charge_patches` with
         ``whole_faces=True``; ``points`` (N, 3) the nodes of all faces [m];
-        ``moments`` (F * c * 6, 3 N) [A m]; ``columns`` = c = 5, the rule columns per
-        face (0 the full rule; 1 + 2i and 2 + 2i the rule coarsened once and twice along
-        parameter i, :func:`~planner.physics.forces.quadrature_rules.nested_tensor_rule`);
-        ``length`` the bounding radius R [m]. None if no face carries charge.
+        ``moments`` ((1 + 5 F) * 6, 3 N) [A m]; ``length`` the bounding radius R [m].
+        None if no face carries charge.
 
     Notes
     -----
     With B (N, 3) the field at ``points`` [T], ``moments @ B.ravel()``, reshaped to
-    (F, c, 6), gives for each face f and rule column j the force integral of sigma B dA
-    [N] and the torque integral of r x sigma B dA divided by R [N]: the charge, the
-    Jacobian, the rule weights and the lever arms r are folded into one matrix, so the
-    sums cost a single matrix-vector product. A face's error estimate is the sum over its
-    parameters of the error extrapolated from the two coarser rules
+    (1 + 5 F, 6), gives in each row the force integral of sigma B dA [N] and the torque
+    integral of r x sigma B dA divided by R [N]: row 0 over all faces by the full rule,
+    then for each face f its own integral and, for each parameter i, the differences
+    Q_full - Q_once and Q_once - Q_twice, Q_once and Q_twice being the rule coarsened
+    once and twice along parameter i
+    (:func:`~planner.physics.forces.quadrature_rules.nested_tensor_rule`). The charge,
+    the Jacobian, the rule weights and the lever arms r are folded into one matrix, so
+    the sums cost a single matrix-vector product. A face's error estimate is the sum over
+    its parameters of the error extrapolated from the two differences
     (:func:`~planner.physics.forces.quadrature_rules.extrapolated_error`).
 
     References
@@ -102,7 +103,7 @@ def whole_face_rule(shape: str, diameter: float, height: float, inner_diameter: 
     --------
     >>> rule = whole_face_rule("cylinder", 0.01, 0.005, 0.0, (0.0,) * 3, (0.0, 0.0, 1.0))
     >>> rule.points.shape, rule.moments.shape  # two end discs of 7 x 16 nodes
-    ((224, 3), (60, 672))
+    ((224, 3), (66, 672))
     """
     from planner.physics.forces.charge_model import surface_charge_patches
 
@@ -111,7 +112,6 @@ def whole_face_rule(shape: str, diameter: float, height: float, inner_diameter: 
     maps, faces = surface_charge_patches(body, whole_faces=True)
     if not faces:
         return None
-    columns = 5  # every face has two parameters, each with two coarser rules
     blocks = []
     for index, low, high, periodic in faces:
         kinds = tuple(("periodic", angle_points) if axis == periodic
@@ -119,14 +119,22 @@ def whole_face_rule(shape: str, diameter: float, height: float, inner_diameter: 
         nodes, rule_weights = nested_tensor_rule(kinds)
         low, high = np.asarray(low), np.asarray(high)
         points, measure = maps[index](low + (high - low) * nodes)
-        scaled = rule_weights * (measure * np.prod(high - low))[:, None]
+        # columns: full rule, then per parameter the two coarser ones -> the full rule and,
+        # per parameter, (full - once) and (once - twice)
+        full, once, twice = rule_weights[:, :1], rule_weights[:, 1::2], rule_weights[:, 2::2]
+        differences = np.stack([full - once, once - twice], axis=2).reshape(len(nodes), 4)
+        scaled = np.c_[full, differences] * (measure * np.prod(high - low))[:, None]
         blocks.append((points, scaled))
     points = np.concatenate([points for points, _ in blocks])
-    weights = np.zeros((len(faces) * columns, len(points)))
+    # row 0 the total over all faces by the full rule; then per face its full rule and
+    # its 4 differences
+    weights = np.zeros((1 + 5 * len(faces), len(points)))
     start = 0
     for f, (face_points, scaled) in enumerate(blocks):
-        weights[f * columns:(f + 1) * columns, start:start + len(face_points)] = scaled.T
-        start += len(face_points)
+        stop = start + len(face_points)
+        weights[0, start:stop] = scaled[:, 0]
+        weights[1 + 5 * f:6 + 5 * f, start:stop] = scaled.T
+        start = stop
     length = body.bounding_radius
     # force rows: sum_i w_i B_i; torque rows: sum_i w_i (r_i x B_i) / R, r x B = [r]_x B
     moments = np.zeros((len(weights), 6, len(points), 3))
@@ -140,7 +148,7 @@ def whole_face_rule(shape: str, diameter: float, height: float, inner_diameter: 
     moments = moments.reshape(len(weights) * 6, len(points) * 3)
     points.flags.writeable = False
     moments.flags.writeable = False
-    return WholeFaceRule(maps, faces, points, moments, columns, length)
+    return WholeFaceRule(maps, faces, points, moments, length)
 
 
 def field_in_frame_of(target: MagnetBody, source: MagnetBody, field=None):

@@ -353,8 +353,8 @@ ACCURACY_CASES = {  # (source, target before placing, gap along -z or toward the
                                                       diameter=8e-3, height=4e-3), 0.0),
     "tilted 20 mm": (SOURCE_CYLINDER, MagnetBody("cylinder", [1e-3, 0, .02], TILT_30, 1.2 * TILT_30[:, 2],
                                                  diameter=8e-3, height=4e-3), 20e-3),
-    "tilted block on block 0.3 mm": (BLOCK, PAIRS["block-tilted cylinder"][1].__class__(
-        "block", [3e-3, 1e-3, .02], TILT, 1.1 * TILT[:, 2], size=[4e-3, 5e-3, 6e-3]), 3e-4),
+    "tilted block on block 0.3 mm": (BLOCK, MagnetBody("block", [3e-3, 1e-3, .02], TILT, 1.1 * TILT[:, 2],
+                                                       size=[4e-3, 5e-3, 6e-3]), 3e-4),
     "diametral cylinder on block 2 mm": (BLOCK, PAIRS["block-tilted cylinder"][1], 2e-3),
     "ring near a tilted block": (MagnetBody("block", [3e-3, 1e-3, .02], TILT, 1.1 * TILT[:, 2],
                                             size=[4e-3, 5e-3, 6e-3]), RING, 3e-4),

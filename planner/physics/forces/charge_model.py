@@ -276,9 +276,13 @@ def force_and_torque_by_charges(target: MagnetBody, source: MagnetBody, rtol: fl
             """sigma B and sigma (r x B) / R at target-frame points, times the weight."""
             B = local_field(points)
             values = np.empty((len(points), 6))
-            values[:, :3] = B
-            values[:, 3:] = np.cross(points, B) / length
-            return values * charge[:, None]
+            np.multiply(B, charge[:, None], out=values[:, :3])
+            lever = points * (charge / length)[:, None]
+            for row in range(3):  # (r x B)_row, cyclically
+                after, following = (row + 1) % 3, (row + 2) % 3
+                values[:, 3 + row] = (lever[:, after] * B[:, following]
+                                      - lever[:, following] * B[:, after])
+            return values
 
         boxes = [box for f in refine for box in _initial_boxes(*rule.faces[f])]
         refined = adaptive_box_integral(rule.maps, boxes, integrand, _size, rtol=0.0,

@@ -241,13 +241,17 @@ def box_nodes(maps, face, low, high, orders: tuple[int, int] | int = DEFAULT_ORD
     per_box = len(nodes)
     span = high - low
     params = low[:, None, :] + span[:, None, :] * nodes[None, :, :]
-    points = np.empty(params.shape[:2] + (3,))
-    measure = np.empty(params.shape[:2])
-    for index in np.unique(face):
-        mine = face == index
-        p, m = maps[index](params[mine].reshape(-1, low.shape[1]))
-        points[mine] = p.reshape(-1, per_box, 3)
-        measure[mine] = m.reshape(-1, per_box)
+    if face.min() == face.max():  # all boxes on one face: one call of its map
+        p, m = maps[face[0]](params.reshape(-1, low.shape[1]))
+        points, measure = p.reshape(len(face), per_box, 3), m.reshape(len(face), per_box)
+    else:
+        points = np.empty(params.shape[:2] + (3,))
+        measure = np.empty(params.shape[:2])
+        for index in np.unique(face):
+            mine = face == index
+            p, m = maps[index](params[mine].reshape(-1, low.shape[1]))
+            points[mine] = p.reshape(-1, per_box, 3)
+            measure[mine] = m.reshape(-1, per_box)
     return points, measure * np.prod(span, axis=1)[:, None], rule_weights
 
 
@@ -271,7 +275,7 @@ def box_sums(values, rule_weights, error_size):
         for each parameter j the extrapolated estimate from ``error_size(Q_0 - Q_1+2j)``
         and ``error_size(Q_1+2j - Q_2+2j)``, p = d.
     """
-    sums = np.einsum("bmk,mc->bck", values, rule_weights)
+    sums = np.matmul(rule_weights.T, values)  # (c, m) @ (b, m, k) -> (b, c, k)
     if sums.shape[1] == 2:
         return sums[:, 0], error_size(sums[:, :1] - sums[:, 1:])
     once, twice = sums[:, 1::2], sums[:, 2::2]

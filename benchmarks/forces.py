@@ -10,9 +10,9 @@ For each arrangement (coaxial, offset, tilted) and gap (1, 5, 20 mm) it reports:
   closed form of Vokoun et al. to ~1e-10 for the coaxial pairs;
 - the smallest magpylib meshing (test-only reference library, magpylib.getFT) from a
   geometric ladder starting at 10 cells whose force error is within 0.1 %, and its time;
-- the time of one call of the source's closed-form field at the first pass's nodes (224,
-  or 168 beyond twice the summed radii): the floor under which our force cannot go without
-  a faster field function, and the speed-up that floor would give.
+- the time of one call of the source's closed-form field at the first pass's nodes (168 to
+  336, fewer for pairs farther apart): the floor under which our force cannot go without a
+  faster field function, and the speed-up over magpylib that floor would give ("cap").
 Times are the best of 30 repeats, ours and magpylib's taken alternately so that a load on
 the machine weighs on both alike; the ratios are steadier than the absolute times.
 Then the exact fast paths (coaxial cylinders, parallel cuboids) are timed.
@@ -32,7 +32,7 @@ from planner.physics.bodies import MagnetBody, rotation_from_axis
 from planner.physics.fields import cylinder_field, field_of_body
 from planner.physics.forces import force_and_torque_by_charges, force_between, place_at_gap
 from planner.physics.forces.charge_model import _rule_key, surface_charge_patches
-from planner.physics.forces.face_rules import FAR_APART, FAR_RULE, whole_face_rule
+from planner.physics.forces.face_rules import first_pass_size, whole_face_rule
 from planner.physics.forces.quadrature import adaptive_box_integral
 
 SOURCE = MagnetBody("cylinder", [0, 0, 0], np.eye(3), [0, 0, 1.3], diameter=10e-3, height=5e-3)
@@ -87,9 +87,7 @@ def magpylib_object(magpy, body):
 
 def first_pass_field_call(target, source):
     """One call of the source's closed form at the nodes of the target's first pass."""
-    apart = target.center - source.center
-    far = np.linalg.norm(apart) >= FAR_APART * (target.bounding_radius + source.bounding_radius)
-    rule = whole_face_rule(*_rule_key(target), *(FAR_RULE if far else ()))
+    rule = whole_face_rule(*_rule_key(target), *first_pass_size(target, source))
     points = target.center + rule.points @ target.rotation.T  # source at the origin, unturned
     J = source.polarization_body
     return len(points), lambda: cylinder_field(points, source.diameter, source.height, J)

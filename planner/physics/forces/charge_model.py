@@ -25,8 +25,8 @@ import numpy as np
 from scipy.constants import mu_0
 
 from planner.physics.bodies import MagnetBody
-from planner.physics.forces.face_rules import (FAR_APART, FAR_RULE, INTERVAL_POINTS,
-                                               field_in_frame_of, whole_face_rule)
+from planner.physics.forces.face_rules import (INTERVAL_POINTS, field_in_frame_of,
+                                               first_pass_size, whole_face_rule)
 from planner.physics.forces.quadrature import adaptive_box_integral
 from planner.physics.forces.quadrature_rules import extrapolated_error
 
@@ -215,8 +215,9 @@ def force_and_torque_by_charges(target: MagnetBody, source: MagnetBody, rtol: fl
     surface term because B_source is curl-free in the target.
 
     First pass: one fixed rule over each whole face
-    (:func:`~planner.physics.forces.face_rules.whole_face_rule`; 7 x 16 nodes per face,
-    7 x 12 when the centres are more than twice the summed bounding radii apart), with the
+    (:func:`~planner.physics.forces.face_rules.whole_face_rule`; 7 nodes along a radius,
+    height or side and 12, 16 or 24 around a turn, more for closer pairs,
+    :func:`~planner.physics.forces.face_rules.first_pass_size`), with the
     source's closed form evaluated in the target's frame in a single call. Its error
     estimate per face and parameter is extrapolated from the two coarser nested rules
     (:func:`~planner.physics.forces.quadrature_rules.extrapolated_error`). If the summed
@@ -238,10 +239,7 @@ def force_and_torque_by_charges(target: MagnetBody, source: MagnetBody, rtol: fl
     >>> bool(np.allclose(force, 0.0, atol=1e-12)), bool(np.allclose(torque, 0.0, atol=1e-12))
     (True, True)
     """
-    apart = target.center - source.center
-    reach = target.bounding_radius + source.bounding_radius
-    far = apart @ apart >= (FAR_APART * reach) ** 2
-    rule = whole_face_rule(*_rule_key(target), *(FAR_RULE if far else ()))
+    rule = whole_face_rule(*_rule_key(target), *first_pass_size(target, source))
     if rule is None:
         return np.zeros(3), np.zeros(3)
     local_field = field_in_frame_of(target, source, field)

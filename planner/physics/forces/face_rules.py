@@ -37,11 +37,45 @@ from planner.physics.forces.quadrature_rules import nested_tensor_rule
 ANGLE_POINTS = 16
 #: Nodes of the nested rule (1, 3, 7 or 15 points) along every other parameter.
 INTERVAL_POINTS = 7
-#: The smaller rule (7 nodes along a parameter, 12 along a full turn) for a target whose
-#: centre is at least this many times (R_source + R_target) from the source's, R being
-#: bounding radii; such faces see a field that varies slowly across them.
-FAR_APART = 2.0
-FAR_RULE = (7, 12)
+#: (separation, (interval points, angle points)): the first-pass rule for a target whose
+#: centre distance from the source is at least ``separation`` times the sum of the two
+#: bounding radii. Closer faces see a field that varies faster, above all around the
+#: turn, where a near rim crosses them; the tiers were set on the pairs of the tests and
+#: of benchmarks/forces.py so that most of them need one pass (the estimate decides).
+RULE_TIERS = ((2.0, (7, 12)), (0.75, (INTERVAL_POINTS, ANGLE_POINTS)), (0.0, (7, 24)))
+
+
+def first_pass_size(target: MagnetBody, source: MagnetBody) -> tuple[int, int]:
+    """The (interval points, angle points) of the first-pass rule for this pair.
+
+    Parameters
+    ----------
+    target, source : MagnetBody
+
+    Returns
+    -------
+    (int, int)
+        From ``RULE_TIERS`` by d / (R_target + R_source), d the distance between the
+        centres and R the bounding radii.
+
+    Notes
+    -----
+    Only the cost depends on this choice: the error estimate decides whether a face is
+    refined.
+
+    Examples
+    --------
+    >>> a = MagnetBody("sphere", [0, 0, 0], np.eye(3), [0, 0, 1.0], diameter=0.01)
+    >>> first_pass_size(a, MagnetBody("sphere", [0, 0, 0.1], np.eye(3), [0, 0, 1.0], diameter=0.01))
+    (7, 12)
+    """
+    apart = target.center - source.center
+    reach = target.bounding_radius + source.bounding_radius
+    ratio = math.sqrt(apart @ apart) / reach
+    for separation, size in RULE_TIERS:
+        if ratio >= separation:
+            return size
+    return RULE_TIERS[-1][1]
 
 
 class WholeFaceRule(NamedTuple):

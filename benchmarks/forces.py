@@ -17,10 +17,12 @@ Times are the best of 30 repeats, ours and magpylib's taken alternately so that 
 the machine weighs on both alike; the ratios are steadier than the absolute times.
 Then the exact fast paths (coaxial cylinders, parallel cuboids) are timed.
 
-Measured on the 2-core development machine (December 2026), with other jobs running: ours
-0.11-0.16 ms for every case (one field call each), 7.5-27x faster than magpylib at the
-mesh that reaches 0.1 %; the field call alone is 0.08-0.11 ms, so the present field
-function caps the speed-up at about 10-13x where 30 cells suffice (20 mm gaps).
+Measured on the 2-core development machine (December 2026), with other jobs running:
+every case takes one field call; ours 0.18-0.28 ms with force errors 1e-14..6e-5 at
+rtol 1e-3; 10.7-19.9x faster than magpylib where it needs 300-1000 cells (coaxial and
+offset at 1 and 5 mm), 5.6-5.8x where 30-100 cells suffice (20 mm gaps, tilted at 1 and
+5 mm). There the field call alone is 0.14-0.17 ms and caps the speed-up at 7.6-7.9x: 10x
+needs a faster field function (see the cap column), not a cheaper quadrature.
 """
 from __future__ import annotations
 

@@ -12,7 +12,14 @@ pair
 steel
     Method of images for a large flat steel surface; plate saturation estimate.
 quadrature
-    Adaptive tensor Gauss-Legendre quadrature on parameter boxes.
+    Adaptive quadrature on parameter boxes (nested rules, split along the parameter that
+    carries the error).
+quadrature_rules
+    Nested interval rules (midpoint, Gauss, Kronrod, Patterson), periodic trapezoidal rules
+    and the extrapolated error estimate from two nested differences.
+face_rules
+    One fixed rule per whole charged face, sized by the pair's separation: the first pass
+    of the general force (a single field call for most pairs).
 
 All functions take :class:`planner.physics.bodies.MagnetBody` objects or SI floats and
 return SI floats and arrays (forces in N, torques in N m, energies in J).

@@ -20,7 +20,7 @@ import math
 from dataclasses import dataclass, field
 
 from planner.assessment import Threshold
-from planner.units import format_flux_density
+from planner.units import MICRO_ASCII, format_flux_density, format_number, format_quantity
 
 __all__ = ["Finding", "SEVERITIES", "BLOCKING", "ACTION", "NOTE", "severity_rank", "DEFERRAL",
            "deferral_line", "show", "show_field", "threshold_text", "source_entry", "threshold_map",
@@ -101,28 +101,25 @@ def is_number(value) -> bool:
     return isinstance(value, (int, float)) and not isinstance(value, bool) and math.isfinite(value)
 
 
+# kind -> (unit written after the number, the SI value of one of it, prefixes allowed).
+# The prefixes of mass go on the gram (kg, g).
 _UNITS = {
-    "length": [(1.0, "m"), (1e-3, "mm")],
-    "force": [(1e3, "kN"), (1.0, "N"), (1e-3, "mN")],
-    "energy": [(1.0, "J"), (1e-3, "mJ"), (1e-6, "uJ")],
-    "voltage": [(1e3, "kV"), (1.0, "V"), (1e-3, "mV"), (1e-6, "uV")],
-    "current": [(1.0, "A"), (1e-3, "mA"), (1e-6, "uA"), (1e-9, "nA")],
-    "charge": [(1.0, "C"), (1e-3, "mC"), (1e-6, "uC"), (1e-9, "nC")],
-    "pressure": [(1e4, "N/cm^2")],
-    "speed": [(1.0, "m/s")],
-    "mass": [(1.0, "kg"), (1e-3, "g")],
-    "moment": [(1.0, "A m^2")],
-    "torque": [(1.0, "N m"), (1e-3, "N mm")],
+    "length": ("m", 1.0, ("", "m")),
+    "force": ("N", 1.0, ("k", "", "m")),
+    "energy": ("J", 1.0, ("", "m", "u")),
+    "voltage": ("V", 1.0, ("k", "", "m", "u")),
+    "current": ("A", 1.0, ("", "m", "u", "n")),
+    "charge": ("C", 1.0, ("", "m", "u", "n")),
+    "pressure": ("N/cm^2", 1e4, ("",)),
+    "speed": ("m/s", 1.0, ("",)),
+    "mass": ("kg", 1.0, ("k", "")),
+    "moment": ("A m^2", 1.0, ("",)),
 }
 
 
 def plain_number(value: float) -> str:
     """Three significant figures, without exponents below a million: 3621.7 -> ``3 620``."""
-    if is_number(value):
-        rounded = float(f"{value:.3g}")
-        if 1e3 <= abs(rounded) < 1e6:
-            return f"{rounded:,.0f}".replace(",", " ")
-    return f"{value:.3g}"
+    return format_number(value) if is_number(value) else f"{value:.3g}"
 
 
 def show_field(tesla) -> str:
@@ -131,7 +128,11 @@ def show_field(tesla) -> str:
 
 
 def show(value, kind: str) -> str:
-    """A value with a readable unit: ``show(0.012, "length") -> '12 mm'``; NaN -> ``not available``."""
+    """A value with a readable unit for the terminal and JSON: ``show(0.012, "length") -> '12 mm'``.
+
+    Micro is written ``u``; NaN, infinity and non-numbers give ``not available``. The units and
+    prefixes for each kind are in ``_UNITS``; the formatting is :func:`planner.units.format_quantity`.
+    """
     if not is_number(value):
         return "not available"
     if kind in ("field", "field_at_distance", "source_field"):
@@ -146,14 +147,13 @@ def show(value, kind: str) -> str:
         return f"{value:g} years"
     if kind == "coercivity":
         return f"{value / 1e3:.3g} kA/m"
-    scales = _UNITS.get(kind, [(1.0, "")])
-    if value == 0:
-        return f"0 {next((u for f, u in scales if f == 1.0), scales[0][1])}".strip()
-    for scale, unit in scales:
-        if abs(value) >= scale:
-            return f"{plain_number(value / scale)} {unit}".strip()
-    scale, unit = scales[-1]
-    return f"{plain_number(value / scale)} {unit}".strip()
+    if kind == "torque":  # below 1 N m in newton millimetres, as small torques are usually written
+        large = value == 0 or abs(value) >= 1 - 5e-4  # 0, or 1 N m or more once rounded to three figures
+        return format_quantity(value if large else value / 1e-3, "N m" if large else "N mm", prefixes=("",))
+    if kind not in _UNITS:
+        return plain_number(value)
+    unit, size, prefixes = _UNITS[kind]
+    return format_quantity(value / size, unit, micro=MICRO_ASCII, prefixes=prefixes)
 
 
 def threshold_text(threshold: Threshold) -> str:

@@ -1,9 +1,14 @@
-"""Quantity strings -> SI floats. The one place that knows about units.
+"""Quantity strings -> SI floats, and SI floats -> text for people. The one place that knows about units.
 
 Every physical value in a setup file is a string with its unit (``"25 mm"``, ``"1.32 T"``,
 ``"300 rpm"``). :func:`to_si` turns it into a float in SI base units for a named kind of
 quantity, or raises :class:`UnitError` with a message a user can act on. Nothing else in
 the project imports pint.
+
+The other way, :func:`format_quantity` is the one formatter of values for people: SI prefix,
+significant figures, and micro written ``u`` (terminal) or ``µ`` (PDF) as the caller chooses.
+``hazards.findings.show`` (terminal, JSON) and ``reports.pdf.formatting.quantity`` (PDF) call it
+with their own choice of prefixes per unit.
 
 Conventions that pint alone would get wrong, handled here on purpose:
 
@@ -19,7 +24,7 @@ Conventions that pint alone would get wrong, handled here on purpose:
 References
 ----------
 IEC 60028:1925, International standard of resistance for copper (100 % IACS = 58.0 MS/m).
-BIPM, The International System of Units (SI), 9th ed. (2019), for the base units.
+BIPM, The International System of Units (SI), 9th ed. (2019), for the base units and the prefixes (table 7).
 """
 from __future__ import annotations
 
@@ -30,7 +35,8 @@ from functools import lru_cache
 
 import pint
 
-__all__ = ["UnitError", "KINDS", "to_si", "is_quantity_text", "format_si"]
+__all__ = ["UnitError", "KINDS", "to_si", "is_quantity_text", "vector_to_si", "MICRO_ASCII", "MICRO_SIGN",
+           "SI_PREFIXES", "format_number", "format_quantity", "format_flux_density"]
 
 
 class UnitError(ValueError):
@@ -186,23 +192,6 @@ def _article(kind: str) -> str:
     return "an" if kind[0] in "aeiou" else "a"
 
 
-def format_si(value: float, kind: str, digits: int = 3) -> str:
-    """Format an SI value with a readable unit prefix for display: 0.0123 length -> ``12.3 mm``."""
-    unit = KINDS[kind].si_unit
-    if kind == "temperature":
-        return f"{value:.{digits}g} degC"
-    if value == 0 or not math.isfinite(value):
-        return f"{value:g} {unit}"
-    prefixes = [(1e6, "M"), (1e3, "k"), (1.0, ""), (1e-3, "m"), (1e-6, "u"), (1e-9, "n")]
-    if kind == "length":
-        prefixes = [(1e3, "k"), (1.0, ""), (1e-3, "m"), (1e-6, "u")]
-    for scale, prefix in prefixes:
-        if abs(value) >= scale:
-            return f"{value / scale:.{digits}g} {prefix}{unit}"
-    scale, prefix = prefixes[-1]
-    return f"{value / scale:.{digits}g} {prefix}{unit}"
-
-
 def vector_to_si(value, kind: str) -> tuple[float, float, float]:
     """Read a 3-vector of quantities: ``["0 mm", 0, "30 mm"]`` or ``"0, 0, 30 mm"``.
 
@@ -240,20 +229,168 @@ def vector_to_si(value, kind: str) -> tuple[float, float, float]:
     return tuple(result)
 
 
+# --- SI floats -> text for people ------------------------------------------------------------
+
+#: The two ways of writing the micro prefix: ASCII ``u`` for terminals that may not show the micro
+#: sign, and U+00B5 MICRO SIGN for the PDF, whose fonts have it.
+MICRO_ASCII, MICRO_SIGN = "u", "\u00b5"
+
+#: The SI prefixes for powers of one thousand, symbol -> power of ten (BIPM SI Brochure, 9th ed.,
+#: 2019, table 7). Micro is written ``u`` here; :func:`format_quantity` also accepts the micro sign
+#: and the Greek letter mu, and writes the sign its caller asks for.
+SI_PREFIXES = {"Y": 24, "Z": 21, "E": 18, "P": 15, "T": 12, "G": 9, "M": 6, "k": 3, "": 0,
+               "m": -3, "u": -6, "n": -9, "p": -12, "f": -15, "a": -18, "z": -21, "y": -24}
+_MICRO_SPELLINGS = ("u", MICRO_SIGN, "\u03bc")
+#: The prefixes :func:`format_quantity` chooses from unless told otherwise.
+DISPLAY_PREFIXES = ("G", "M", "k", "", "m", "u", "n", "p")
+
+
+def _round_significant(value: float, digits: int) -> float:
+    """``value`` rounded to ``digits`` significant figures (correctly rounded, via its decimal text)."""
+    return float(f"{value:.{digits - 1}e}")
+
+
+def format_number(value: float, digits: int = 3) -> str:
+    """A number for people: ``digits`` significant figures, no exponent from 1e-4 up to a million.
+
+    Parameters
+    ----------
+    value : float
+        Any real number.
+    digits : int
+        Significant figures kept (at least 1).
+
+    Returns
+    -------
+    str
+        Trailing zeros after the decimal marker are dropped; the integer part is split into groups
+        of three digits by a space from 1 000 up (SI Brochure, 9th ed., 5.4.4); below 1e-4 and
+        from 1e6 up the number is written with an exponent (``5e-05``, ``1.23e+06``); ``0`` for
+        zero of either sign; ``inf``, ``-inf`` or ``nan`` for the values that are not finite.
+
+    Examples
+    --------
+    >>> format_number(0.5), format_number(12.34), format_number(3621.7), format_number(-0.000123)
+    ('0.5', '12.3', '3 620', '-0.000123')
+    """
+    if not math.isfinite(value):
+        return f"{value}"
+    if value == 0:
+        return "0"
+    rounded = _round_significant(value, digits)
+    if not 1e-4 <= abs(rounded) < 1e6:
+        return f"{rounded:.{digits}g}"
+    exponent = int(f"{rounded:e}".split("e")[1])
+    text = f"{abs(rounded):.{max(0, digits - 1 - exponent)}f}"
+    if "." in text:
+        text = text.rstrip("0").rstrip(".")
+    whole, dot, fraction = text.partition(".")
+    if len(whole) > 3:
+        whole = " ".join(whole[max(0, end - 3):end] for end in range(len(whole) % 3 or 3, len(whole) + 1, 3))
+    return ("-" if rounded < 0 else "") + whole + dot + fraction
+
+
+def format_quantity(value: float, unit: str, *, micro: str = MICRO_ASCII, digits: int = 3,
+                    prefixes=DISPLAY_PREFIXES, lower_bounds=None) -> str:
+    """A value with its unit for people, under the SI prefix that keeps the number short.
+
+    Parameters
+    ----------
+    value : float
+        The value in ``unit``.
+    unit : str
+        The unit symbol without a prefix (``"T"``, ``"m"``, ``"N/cm^2"``), or ``"kg"``: prefixes
+        of mass go on the gram (SI Brochure 9th ed., 3), so ``prefixes`` are then gram prefixes
+        (``("k", "")`` gives kg and g).
+    micro : str
+        How to write the micro prefix: :data:`MICRO_ASCII` (``u``, for terminals) or
+        :data:`MICRO_SIGN` (``µ``, for the PDF).
+    digits : int
+        Significant figures shown.
+    prefixes : sequence of str
+        The prefix symbols that may be used (keys of :data:`SI_PREFIXES`; ``""`` for none;
+        micro as ``u``, ``µ`` or ``μ``), in any order. ``("",)`` writes the unit as given.
+    lower_bounds : mapping of str to float, optional
+        For a prefix whose range should start elsewhere than at one of it, the smallest magnitude
+        [in ``unit``] written with it, e.g. ``{"m": 1e-4}`` for mT from 0.1 mT up.
+
+    Returns
+    -------
+    str
+        The value rounded to ``digits`` significant figures first, then written with the largest
+        allowed prefix whose lower bound it reaches (the smallest prefix if it reaches none), the
+        number as :func:`format_number` writes it: ``1.5 uT``, ``12.3 mm``, ``-2 kV``. Zero is
+        written with the unit as given (``0 T``); NaN and infinity as ``not available``.
+
+    Raises
+    ------
+    ValueError
+        For a prefix not in :data:`SI_PREFIXES`, or a micro spelling other than the three above.
+
+    Notes
+    -----
+    A prefix stands for a power of ten (BIPM SI Brochure, 9th ed., 2019, table 7): with ``p``
+    the prefix's power, a value ``x`` is written ``x / 10**p`` followed by the prefix and the
+    unit. Rounding before the choice means that 0.99996 m is written ``1 m``, not ``1000 mm``.
+
+    References
+    ----------
+    BIPM, The International System of Units (SI), 9th ed. (2019): table 7 (prefixes), section 3
+    (prefixes with the kilogram), section 5.4.4 (writing numbers).
+
+    Examples
+    --------
+    >>> format_quantity(1.5e-6, "T"), format_quantity(1.5e-6, "T", micro=MICRO_SIGN)
+    ('1.5 uT', '1.5 µT')
+    >>> format_quantity(0.0123, "m", prefixes=("", "m")), format_quantity(0.25, "kg", prefixes=("k", ""))
+    ('12.3 mm', '250 g')
+    """
+    if micro not in _MICRO_SPELLINGS:
+        raise ValueError(f"micro must be {MICRO_ASCII!r} or {MICRO_SIGN!r}; got {micro!r}")
+    if not math.isfinite(value):
+        return "not available"
+    if value == 0:
+        return f"0 {unit}".strip()
+    base, factor = ("g", 1e3) if unit == "kg" else (unit, 1.0)
+    choices = []
+    for prefix in prefixes:
+        prefix = "u" if prefix in _MICRO_SPELLINGS else prefix
+        if prefix not in SI_PREFIXES:
+            raise ValueError(f"{prefix!r} is not an SI prefix (BIPM SI Brochure, table 7)")
+        power = SI_PREFIXES[prefix]
+        bound = (lower_bounds or {}).get(prefix)
+        choices.append((power, float(f"1e{power}") if bound is None else bound * factor, prefix))
+    choices.sort(reverse=True)
+    rounded = _round_significant(_round_significant(value, digits) * factor, digits)
+    power, _, prefix = next((c for c in choices if abs(rounded) >= c[1]), choices[-1])
+    symbol = (micro if prefix == "u" else prefix) + base
+    return f"{format_number(rounded / float(f'1e{power}'), digits)} {symbol}".strip()
+
+
 def format_flux_density(tesla: float, digits: int = 3) -> str:
-    """A flux density for people, in T, mT or uT: ``0.5 mT``, ``1.32 T``, ``0.525 uT``.
+    """A flux density for people, in T, mT or uT, as the terminal and ``benchplan field`` show it.
 
-    mT from 0.1 mT up, the unit the thresholds of the trade are written in; ``not available``
-    for NaN or infinity.
+    Parameters
+    ----------
+    tesla : float
+        Flux density [T].
+    digits : int
+        Significant figures shown.
 
+    Returns
+    -------
+    str
+        :func:`format_quantity` with micro written ``u`` and mT from 0.1 mT up (the unit the
+        thresholds of the trade are written in), zero as ``0 mT``; ``not available`` for None,
+        NaN or infinity.
+
+    Examples
+    --------
     >>> format_flux_density(5e-4), format_flux_density(1.32), format_flux_density(5.25e-7)
     ('0.5 mT', '1.32 T', '0.525 uT')
     """
-    if tesla is None or not math.isfinite(tesla):
+    if tesla is None:
         return "not available"
-    size = abs(tesla)
-    if size >= 1.0:
-        return f"{tesla:.{digits}g} T"
-    if size >= 1e-4 or size == 0:
-        return f"{tesla * 1e3:.{digits}g} mT"
-    return f"{tesla * 1e6:.{digits}g} uT"
+    if tesla == 0:
+        return "0 mT"
+    return format_quantity(tesla, "T", digits=digits, prefixes=("", "m", "u"), lower_bounds={"m": 1e-4})

@@ -14,14 +14,22 @@ from __future__ import annotations
 import math
 from typing import Any
 
+from planner.units import MICRO_SIGN, format_quantity
+
 SIGNIFICANT = 3
 
-# Units with their own choice of prefixes: (smallest magnitude shown this way, scale, symbol).
-_PREFIXED = {
-    "m": [(1.0, 1.0, "m"), (1e-3, 1e-3, "mm"), (0.0, 1e-6, "µm")],
-    "T": [(1.0, 1.0, "T"), (1e-4, 1e-3, "mT"), (1e-7, 1e-6, "µT"), (0.0, 1e-9, "nT")],
+# Prefixes the report may put on a unit (symbols of SI Brochure table 7; micro as "u", written "µ").
+# Masses in kg from 1 kg up, in g below (prefixes of mass go on the gram). Any other unit is
+# written as it is.
+_PREFIXES = {
+    "m": ("", "m", "u"),
+    "T": ("", "m", "u", "n"),
+    "g": ("k", ""),
+    "kg": ("k", ""),
 }
-_GENERAL_PREFIXES = [(1e6, "M"), (1e3, "k"), (1.0, ""), (1e-3, "m"), (1e-6, "µ"), (1e-9, "n")]
+# The field switches to the next smaller prefix at a tenth of the usual place: 0.1 mT, 0.1 µT.
+_LOWER_BOUNDS = {"T": {"m": 1e-4, "u": 1e-7}}
+_GENERAL_PREFIXES = ("M", "k", "", "m", "u", "n")
 _GENERAL_UNITS = {"V", "A", "W", "J", "N", "s", "H", "Wb", "Ω", "Hz", "Pa", "F", "C"}
 
 # Unit symbols that may end a snake_case key, joined by "_" (product) or "_per_" (quotient).
@@ -52,26 +60,20 @@ def number(value: float, digits: int = SIGNIFICANT) -> str:
 
 
 def quantity(value: float | None, unit: str, digits: int = SIGNIFICANT) -> str:
-    """An SI value with a sensible prefix: 0.0125 m -> '12.5 mm', 2e-5 T -> '20 µT'."""
+    """An SI value with a sensible prefix: 0.0125 m -> '12.5 mm', 2e-5 T -> '20 µT'.
+
+    A caller of :func:`planner.units.format_quantity` with the micro sign ``µ``; ``-`` for None,
+    ``no limit`` or ``not defined`` for infinity and NaN (as :func:`number` writes them).
+    """
     if value is None:
         return "-"
     if isinstance(value, bool) or not isinstance(value, (int, float)):
         return str(value)
     if not math.isfinite(value):
         return number(value)
-    if unit == "Ω" or unit in _GENERAL_UNITS:
-        choices = [(scale, scale, prefix + unit) for scale, prefix in _GENERAL_PREFIXES]
-    else:
-        choices = _PREFIXED.get(unit)
-    if not choices or value == 0:
-        return f"{number(value, digits)} {unit}".strip()
-    magnitude = abs(value)
-    _, scale, symbol = choices[-1]
-    for smallest, candidate_scale, candidate_symbol in choices:
-        if magnitude >= smallest * 0.9995:
-            scale, symbol = candidate_scale, candidate_symbol
-            break
-    return f"{number(value / scale, digits)} {symbol}"
+    prefixes = _GENERAL_PREFIXES if unit in _GENERAL_UNITS else _PREFIXES.get(unit, ("",))
+    return format_quantity(float(value), unit, micro=MICRO_SIGN, digits=digits, prefixes=prefixes,
+                           lower_bounds=_LOWER_BOUNDS.get(unit))
 
 
 def key_label(key: str) -> tuple[str, str]:

@@ -17,7 +17,7 @@ import math
 
 import pytest
 
-from planner.units import KINDS, UnitError, format_si, to_si, vector_to_si
+from planner.units import KINDS, UnitError, to_si, vector_to_si
 
 PI = math.pi
 
@@ -231,21 +231,3 @@ def test_vector_component_errors_name_the_component():
 def test_vector_of_flux_densities_uses_the_gauss_definition():
     # 1 G = 1e-4 T (SI Brochure 8th ed. Table 9)
     assert vector_to_si(["1 G", "2 mT", 0], "flux density") == pytest.approx((1e-4, 2e-3, 0.0))
-
-
-# --- display ---------------------------------------------------------------------------------
-
-@pytest.mark.parametrize("value, kind, text", [
-    (0.0123, "length", "12.3 mm"),      # 1 mm = 1e-3 m
-    (2.5, "length", "2.5 m"),
-    (5e-4, "flux density", "500 uT"),   # 1 uT = 1e-6 T
-    (0.0, "flux density", "0 T"),
-])
-def test_format_si_picks_a_readable_prefix(value, kind, text):
-    assert format_si(value, kind) == text
-
-
-def test_format_si_round_trips_through_to_si():
-    # Formatting then reading back gives the value to the printed precision (3 digits).
-    for value in (0.0123, 4.56e-5, 789.0):
-        assert to_si(format_si(value, "length"), "length") == pytest.approx(value, rel=5e-3)

@@ -53,8 +53,8 @@ def checklist_section(inputs: ReportInputs, s: Styles) -> list:
     data = [[Paragraph("", s.cell), Paragraph(safe("Item", s.fonts), s.cell_bold),
              Paragraph(safe("From", s.fonts), s.cell_bold), Paragraph(safe("Initials", s.fonts), s.cell_bold)]]
     for number, (item, origin) in enumerate(checklist_items(inputs), start=1):
-        data.append([TickBox(), Paragraph(safe(f"{number}. {item}", s.fonts), s.cell),
-                     Paragraph(safe(origin, s.fonts), s.cell), ""])
+        data.append([TickBox(), Paragraph(s.text(f"{number}. {item}", code=True), s.cell),
+                     Paragraph(s.text(origin, code=True), s.cell), ""])
     table = Table(data, colWidths=[8 * mm, 110 * mm, 38 * mm, 18 * mm], repeatRows=1, hAlign="LEFT")
     table.setStyle(TableStyle([
         ("LINEBELOW", (0, 0), (-1, -1), 0.4, RULE_GREY),

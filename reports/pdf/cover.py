@@ -63,7 +63,7 @@ def cover(inputs: ReportInputs, styles: Styles) -> list:
     first = [f for f in findings if ff.blocking(f)]
     story.append(s.para("To settle before work starts", s.heading))
     if first:
-        story += s.bullets(f"{ff.title(f)} ({ff.severity(f)})" for f in first)
+        story += s.bullets((f"{ff.title(f)} ({ff.severity(f)})" for f in first), code=True)
     else:
         story.append(s.para("No finding has to be settled before work starts; work through the checklist."))
     story.append(s.para("How to use this document", s.subheading))

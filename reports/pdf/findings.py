@@ -5,7 +5,7 @@ from reportlab.lib.units import mm
 from reportlab.platypus import KeepTogether
 
 from reports.pdf import finding_fields as ff
-from reports.pdf.fonts import safe
+from reports.pdf.fonts import safe, safe_with_code
 from reports.pdf.inputs import ReportInputs
 from reports.pdf.styles import Styles
 
@@ -22,7 +22,7 @@ def findings_section(inputs: ReportInputs, s: Styles) -> list:
         story.append(s.para(common, s.small))
     for number, finding in enumerate(findings, start=1):
         first = "Settle before work starts. " if ff.blocking(finding) else ""
-        head = s.markup(f"{number}. {safe(ff.title(finding), s.fonts)}", s.subheading)
+        head = s.markup(f"{number}. {safe_with_code(ff.title(finding), s.fonts, bold=True)}", s.subheading)
         meaning = ff.severity_meaning(ff.severity(finding))
         severity_text = ff.severity(finding) + (f" ({meaning})" if meaning else "")
         label = s.markup(f"<b>{safe(first + 'Severity: ' + severity_text, s.fonts)}</b>"
@@ -31,16 +31,16 @@ def findings_section(inputs: ReportInputs, s: Styles) -> list:
         block = [head, label]
         why = ff.text_of(getattr(finding, "why", ""))
         if why:
-            block.append(s.para(why))
+            block.append(s.para(why, code=True))
         figures = ff.figures(finding)
         if figures:
             block.append(s.table(["Figure", "Value"], [[label_text, value] for label_text, value in figures],
-                                 [80 * mm, 70 * mm]))
+                                 [80 * mm, 70 * mm], code=True))
         story.append(KeepTogether(block))
         cautions = ff.cautions(finding)
         if cautions:
             story.append(s.para("Cautions", s.body))
-            story += s.bullets(cautions)
+            story += s.bullets(cautions, code=True)
         sources = ff.sources(finding)
         if sources:
             story.append(s.para("Sources: " + "; ".join(sources), s.small))

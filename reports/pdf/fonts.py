@@ -17,6 +17,10 @@ page: letters outside Latin-1 then cannot be shown.
 Chinese, Japanese and Korean characters (absent from DejaVu) are set in the standard Adobe
 CJK fonts that PDF viewers provide (``STSong-Light``, ``HYSMyeongJo-Medium``): they stay text
 (searchable, copyable) and show wherever the viewer has its Asian font support.
+
+Ids in the texts of findings are written between backticks (```magnet-a```), which reads well in
+a terminal; :func:`safe_with_code` sets them in the PDF standard monospaced font Courier instead
+(every PDF viewer has it, so nothing is embedded) and leaves the backticks out.
 """
 from __future__ import annotations
 
@@ -35,6 +39,8 @@ REGULAR_FILE, BOLD_FILE = "DejaVuSans.ttf", "DejaVuSans-Bold.ttf"
 FONT_DIRECTORY_VARIABLE = "BENCHPLAN_FONT_DIR"
 _DEBIAN_DIRECTORY = Path("/usr/share/fonts/truetype/dejavu")
 _HAN_FONT, _HANGUL_FONT = "STSong-Light", "HYSMyeongJo-Medium"
+#: Monospaced fonts for ids between backticks: PDF standard fonts, Latin-1 only (ids are ASCII).
+CODE_FONT, CODE_FONT_BOLD = "Courier", "Courier-Bold"
 
 
 @dataclass(frozen=True)
@@ -143,3 +149,30 @@ def safe(text, fonts: Fonts | None = None) -> str:
 def _wrap(run: str, font: str | None) -> str:
     escaped = escape(run)
     return f'<font name="{font}">{escaped}</font>' if font else escaped
+
+
+def safe_with_code(text, fonts: Fonts | None = None, bold: bool = False) -> str:
+    """Like :func:`safe`, but text between a pair of backticks is set in Courier, without the backticks.
+
+    Finding titles and checklist items name ids as ```magnet-a```. A span is set in
+    :data:`CODE_FONT` (:data:`CODE_FONT_BOLD` when ``bold``, for bold headings) if it is
+    non-empty printable ASCII, the characters Courier has; any other span, and an unpaired
+    backtick, are shown as written. Everything is escaped as :func:`safe` does, so ``<``, ``>``
+    and ``&`` print as themselves inside and outside the spans.
+
+    >>> safe_with_code("Move `desk-1` & <b>", Fonts("F", "FB", "", frozenset(range(256))))
+    'Move <font name="Courier">desk-1</font> &amp; &lt;b&gt;'
+    """
+    fonts = fonts or report_fonts()
+    parts = ("" if text is None else str(text)).split("`")
+    if len(parts) % 2 == 0:  # an odd number of backticks: the last one has no partner
+        parts[-2:] = [parts[-2] + "`" + parts[-1]]
+    pieces = []
+    for index, part in enumerate(parts):
+        if index % 2 == 0:
+            pieces.append(safe(part, fonts))
+        elif part and all(" " <= character <= "~" for character in part):
+            pieces.append(f'<font name="{CODE_FONT_BOLD if bold else CODE_FONT}">{escape(part)}</font>')
+        else:
+            pieces.append(safe(f"`{part}`", fonts))
+    return "".join(pieces)

@@ -7,7 +7,7 @@ from reportlab.lib.styles import ParagraphStyle
 from reportlab.lib.units import mm
 from reportlab.platypus import Flowable, Paragraph, Table, TableStyle
 
-from reports.pdf.fonts import Fonts, safe
+from reports.pdf.fonts import Fonts, safe, safe_with_code
 
 PAGE_MARGIN = 18 * mm
 RULE_GREY = colors.Color(0.6, 0.6, 0.6)
@@ -34,23 +34,28 @@ class Styles:
                                          leading=13, spaceBefore=6, spaceAfter=3, keepWithNext=1)
         self.bullet = ParagraphStyle("bullet", parent=body, leftIndent=10, bulletIndent=2, spaceAfter=1.5)
 
-    def para(self, text, style=None) -> Paragraph:
-        """A paragraph of plain text (escaped)."""
-        return Paragraph(safe(text, self.fonts), style or self.body)
+    def para(self, text, style=None, code: bool = False) -> Paragraph:
+        """A paragraph of plain text (escaped); with ``code``, ids between backticks in Courier."""
+        return Paragraph(self.text(text, code), style or self.body)
+
+    def text(self, text, code: bool = False) -> str:
+        """Plain text as escaped markup; with ``code``, ids between backticks set in Courier."""
+        return safe_with_code(text, self.fonts) if code else safe(text, self.fonts)
 
     def markup(self, markup: str, style=None) -> Paragraph:
         """A paragraph of markup the report itself wrote (its variable parts already escaped)."""
         return Paragraph(markup, style or self.body)
 
-    def bullets(self, items, style=None) -> list[Paragraph]:
-        return [Paragraph(safe(item, self.fonts), style or self.bullet, bulletText="•") for item in items]
+    def bullets(self, items, style=None, code: bool = False) -> list[Paragraph]:
+        return [Paragraph(self.text(item, code), style or self.bullet, bulletText="•") for item in items]
 
-    def table(self, header: list[str], rows: list[list], widths: list[float], repeat: int = 1) -> Table:
-        """A grid table; header and string cells are escaped and wrapped."""
+    def table(self, header: list[str], rows: list[list], widths: list[float], repeat: int = 1,
+              code: bool = False) -> Table:
+        """A grid table; header and string cells are escaped and wrapped (``code``: see :meth:`text`)."""
         def cell(value, style):
             if isinstance(value, Flowable):
                 return value
-            return Paragraph(safe(value, self.fonts), style)
+            return Paragraph(self.text(value, code), style)
 
         data = [[cell(h, self.cell_bold) for h in header]]
         data += [[cell(value, self.cell) for value in row] for row in rows]

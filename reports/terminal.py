@@ -10,13 +10,20 @@ import textwrap
 
 from hazards.findings import (DEFERRAL, SEVERITIES, SEVERITY_MEANINGS, deferral_line, is_number, plain_number, show,
                               show_field, threshold_text)
+from planner.units import MICRO_ASCII, format_quantity
+from reports.pdf.formatting import key_label
 
 __all__ = ["render_terminal"]
 
 WIDTH = 100
-_SUFFIXES = [("_m_per_s", "speed"), ("_N_m", "torque"), ("_V", "voltage"), ("_A", "current"), ("_J", "energy"),
-             ("_C", "charge"), ("_N", "force"), ("_m", "length"), ("_T", "field"), ("_kg", "mass")]
-_PLAIN_UNITS = {"_s": "s", "_ohm": "ohm", "_H": "H", "_W": "W", "_Hz": "Hz", "_rad_per_s": "rad/s"}
+NO_BREAK = "\u00a0"
+# Units read from a key's suffix (reports.pdf.formatting.key_label) that have a terminal kind in
+# hazards.findings.show; any other unit is written with an SI prefix where one reads naturally.
+_KIND_OF_UNIT = {"m/s": "speed", "N·m": "torque", "V": "voltage", "A": "current", "J": "energy", "C": "charge",
+                 "N": "force", "m": "length", "T": "field", "kg": "mass"}
+_PREFIXED_UNITS = {"s", "H", "W", "Hz", "Wb", "Ω", "F", "Pa"}
+# Plain-text spellings of the PDF's unit symbols, for terminals that may not show them.
+_ASCII = {"·": " ", "Ω": "ohm", "²": "^2", "³": "^3", "°C": "degC"}
 
 
 def render_terminal(setup, assessment) -> str:
@@ -160,15 +167,22 @@ def _projectiles(out, assessment):
 
 
 def _value_text(key: str, value) -> tuple[str, str]:
-    if isinstance(value, bool) or not isinstance(value, (int, float)):
+    """(words, value with unit) of a unit-suffixed key: ``conductivity_S_per_m`` -> 'conductivity', '5.8e+07 S/m'."""
+    words, unit = key_label(key)
+    if isinstance(value, bool):
+        return words, "yes" if value else "no"
+    if not isinstance(value, (int, float)):
         return key.replace("_", " "), str(value)
-    for suffix, kind in _SUFFIXES:
-        if key.endswith(suffix):
-            return key[: -len(suffix)].replace("_", " "), show(value, kind)
-    for suffix, unit in _PLAIN_UNITS.items():
-        if key.endswith(suffix):
-            return key[: -len(suffix)].replace("_", " "), (f"{value:.3g} {unit}" if is_number(value) else "n/a")
-    return key.replace("_", " "), (f"{value:.3g}" if is_number(value) else "n/a")
+    if not is_number(value):
+        return words, "not available"
+    if unit in _KIND_OF_UNIT:
+        return words, show(value, _KIND_OF_UNIT[unit])
+    if not unit or unit == "1":
+        return words, plain_number(value)
+    for symbol, plain in _ASCII.items():
+        unit = unit.replace(symbol, plain)
+    prefixes = ("M", "k", "", "m", "u", "n") if unit in {_ASCII.get(u, u) for u in _PREFIXED_UNITS} else ("",)
+    return words, format_quantity(value, unit, micro=MICRO_ASCII, prefixes=prefixes)
 
 
 def _induction(out, assessment):
@@ -178,8 +192,12 @@ def _induction(out, assessment):
     for row in assessment.induction:
         out.append(f"  {row.activity_id} ({row.kind.replace('_', ' ')})")
         values = row.values if isinstance(row.values, dict) else {}
-        parts = [": ".join(_value_text(k, v)) for k, v in values.items()]
-        out += _wrap("; ".join(parts), "      ")
+        # a value and its unit stay on one line: joined by a no-break space while wrapping
+        parts = []
+        for key, value in values.items():
+            words, text = _value_text(key, value)
+            parts.append(f"{words}: {text.replace(' ', NO_BREAK) if isinstance(value, (int, float)) else text}")
+        out += [line.replace(NO_BREAK, " ") for line in _wrap("; ".join(parts), "      ")]
         for warning in row.warnings:
             out += _wrap(f"remark: {warning}", "      ")
 

@@ -10,7 +10,7 @@ from planner import __version__
 from planner.assessment import Assessment, Threshold
 from planner.calculations.handling import pair_figures, projectile_figures, steel_lift_gradient_distances
 from planner.calculations.induction import induction_figures
-from planner.calculations.keep_out import contours, keep_out_distances, zone_reaches
+from planner.calculations.keep_out import PendingKeepOut, contours, zone_reaches
 from planner.calculations.magnets import magnet_figures
 from planner.calculations.methods import assumptions, references
 from planner.calculations.shipping import shipping_figures
@@ -21,15 +21,21 @@ def compute_figures(setup: Setup, thresholds: list[Threshold], with_maps: bool =
     """All figures of ``setup`` for the given thresholds, without findings."""
     assessment = Assessment(title=setup.title, program_version=__version__, thresholds=list(thresholds))
     assessment.magnets = magnet_figures(setup)
-    assessment.keep_out = keep_out_distances(setup, thresholds)
-    if with_maps:
-        assessment.contours = contours(setup, thresholds)
-    assessment.zone_reach = zone_reaches(setup, thresholds)
-    assessment.pairs = pair_figures(setup)
-    assessment.projectiles = projectile_figures(setup)
-    assessment.steel_lift_gradient_distance_m = steel_lift_gradient_distances(setup)
-    assessment.induction = induction_figures(setup)
-    assessment.shipping = shipping_figures(setup)
+    # The keep-out distances, the longest part, run in worker processes while this one
+    # works out the other figures.
+    keep_out = PendingKeepOut(setup, thresholds)
+    try:
+        if with_maps:
+            assessment.contours = contours(setup, thresholds)
+        assessment.zone_reach = zone_reaches(setup, thresholds)
+        assessment.pairs = pair_figures(setup)
+        assessment.projectiles = projectile_figures(setup)
+        assessment.steel_lift_gradient_distance_m = steel_lift_gradient_distances(setup)
+        assessment.induction = induction_figures(setup)
+        assessment.shipping = shipping_figures(setup)
+        assessment.keep_out = keep_out.result()
+    finally:
+        keep_out.close()
     assessment.assumptions = assumptions(setup, assessment)
     assessment.references = references(assessment)
     return assessment

@@ -15,7 +15,7 @@ import numpy as np
 
 from planner.assessment import Contour, KeepOut, Threshold, ZoneReach
 from planner.materials import MAX_PERMANENT_MAGNET_REMANENCE_T
-from planner.physics.zones import field_contours, keep_out_table, zone_reach
+from planner.physics.zones import KeepOutJob, field_contours, zone_reach
 from planner.setup import Setup
 from planner.setup.geometry import bodies_of
 
@@ -42,18 +42,38 @@ def field_thresholds(thresholds: list[Threshold]) -> list[Threshold]:
 
 def keep_out_distances(setup: Setup, thresholds: list[Threshold]) -> list[KeepOut]:
     """The keep-out distance of every magnet for every field threshold [m from the centre]."""
-    bodies = bodies_of(setup)
-    rows = [t for t in field_thresholds(thresholds) if t.id in KEEP_OUT_THRESHOLDS]
-    if not bodies or not rows:
-        return []
-    values = np.unique([t.value for t in rows])  # thresholds of equal value share one computation
-    table = keep_out_table(bodies, values)  # one magnet per worker process, on every core
-    result = []
-    for index, magnet in enumerate(setup.magnets):
-        radius_of = dict(zip(values.tolist(), table[index]))
-        result += [KeepOut(threshold_id=t.id, threshold_T=t.value, magnet_id=magnet.id,
-                           distance_m=float(radius_of[t.value]), origin=t.origin, source=t.source) for t in rows]
-    return result
+    return PendingKeepOut(setup, thresholds).result()
+
+
+class PendingKeepOut:
+    """:func:`keep_out_distances` started in worker processes; :meth:`result` collects them.
+
+    The caller can work out other figures meanwhile; the workers use every core. Call
+    :meth:`close` (or :meth:`result`) so that no worker is left running.
+    """
+
+    def __init__(self, setup: Setup, thresholds: list[Threshold]):
+        bodies = bodies_of(setup)
+        self.magnet_ids = [m.id for m in setup.magnets]
+        self.rows = [t for t in field_thresholds(thresholds) if t.id in KEEP_OUT_THRESHOLDS]
+        self.values = np.unique([t.value for t in self.rows])  # equal values share one computation
+        self.job = KeepOutJob(bodies, self.values) if bodies and self.rows else None
+
+    def result(self) -> list[KeepOut]:
+        if self.job is None:
+            return []
+        table = self.job.result()
+        result = []
+        for index, magnet_id in enumerate(self.magnet_ids):
+            radius_of = dict(zip(self.values.tolist(), table[index]))
+            result += [KeepOut(threshold_id=t.id, threshold_T=t.value, magnet_id=magnet_id,
+                               distance_m=float(radius_of[t.value]), origin=t.origin, source=t.source)
+                       for t in self.rows]
+        return result
+
+    def close(self) -> None:
+        if self.job is not None:
+            self.job.close()
 
 
 def map_planes(setup: Setup) -> tuple[float, float]:

@@ -7,9 +7,10 @@ Each figure errs outward; the module docstrings say how.
 from planner.physics.zones.contours import field_contours, field_grid, contour_lines
 from planner.physics.zones.keep_out import farthest_start_radius, keep_out_radii, keep_out_radius
 from planner.physics.zones.reach import zone_reach
-from planner.physics.zones.table import available_workers, keep_out_table
+from planner.physics.zones.table import KeepOutJob, available_workers, keep_out_table
 
 __all__ = [
+    "KeepOutJob",
     "available_workers",
     "contour_lines",
     "farthest_start_radius",

@@ -17,7 +17,7 @@ import numpy as np
 from planner.physics.bodies import MagnetBody
 from planner.physics.zones.keep_out import keep_out_radii
 
-__all__ = ["keep_out_table", "available_workers"]
+__all__ = ["KeepOutJob", "keep_out_table", "available_workers"]
 
 
 def available_workers() -> int:
@@ -28,6 +28,45 @@ def available_workers() -> int:
         return max(len(os.sched_getaffinity(0)), 1)
     except AttributeError:  # platforms without CPU affinity
         return max(os.cpu_count() or 1, 1)
+
+
+class KeepOutJob:
+    """Keep-out distances being computed in worker processes; :meth:`result` waits for them.
+
+    Lets the caller compute other figures in its own process meanwhile (the workers and the
+    caller then share the cores). With one worker the work is done in :meth:`result`.
+    """
+
+    def __init__(self, bodies: list[MagnetBody], thresholds, workers: int | None = None):
+        self.bodies = list(bodies)
+        self.thresholds = np.atleast_1d(np.asarray(thresholds, dtype=float))
+        count = len(self.bodies)
+        self.workers = min(available_workers() if workers is None else int(workers), count)
+        self._pool, self._futures = None, {}
+        if self.workers > 1:
+            order = np.argsort([-float(np.linalg.norm(body.moment)) for body in self.bodies], kind="stable")
+            self._pool = ProcessPoolExecutor(max_workers=self.workers, mp_context=multiprocessing.get_context("fork"))
+            self._futures = {int(i): self._pool.submit(keep_out_radii, self.bodies, int(i), self.thresholds)
+                             for i in order}
+
+    def result(self) -> np.ndarray:
+        """Distances [m], (len(bodies), len(thresholds)); see :func:`keep_out_table`."""
+        count = len(self.bodies)
+        if self._pool is None:
+            return np.array([keep_out_radii(self.bodies, i, self.thresholds) for i in range(count)]).reshape(count, -1)
+        try:
+            result = np.empty((count, len(self.thresholds)))
+            for i, future in self._futures.items():
+                result[i] = future.result()
+            return result
+        finally:
+            self.close()
+
+    def close(self) -> None:
+        """Stop the workers (unfinished distances are dropped)."""
+        if self._pool is not None:
+            self._pool.shutdown(wait=True, cancel_futures=True)
+            self._pool = None
 
 
 def keep_out_table(bodies: list[MagnetBody], thresholds, workers: int | None = None) -> np.ndarray:
@@ -50,17 +89,7 @@ def keep_out_table(bodies: list[MagnetBody], thresholds, workers: int | None = N
     Notes
     -----
     The largest magnets are started first (their distances take longest), so the work
-    spreads evenly over the workers.
+    spreads evenly over the workers. :class:`KeepOutJob` starts the same work and returns
+    at once.
     """
-    thresholds = np.atleast_1d(np.asarray(thresholds, dtype=float))
-    count = len(bodies)
-    workers = min(available_workers() if workers is None else int(workers), count)
-    if workers <= 1:
-        return np.array([keep_out_radii(bodies, i, thresholds) for i in range(count)]).reshape(count, -1)
-    order = np.argsort([-float(np.linalg.norm(body.moment)) for body in bodies], kind="stable")
-    result = np.empty((count, len(thresholds)))
-    with ProcessPoolExecutor(max_workers=workers, mp_context=multiprocessing.get_context("fork")) as pool:
-        futures = {int(i): pool.submit(keep_out_radii, bodies, int(i), thresholds) for i in order}
-        for i, future in futures.items():
-            result[i] = future.result()
-    return result
+    return KeepOutJob(bodies, thresholds, workers).result()

@@ -45,7 +45,7 @@ def largest_exceeding(function, level: float, search_limit: float, smallest: flo
     -----
     Scans a geometric grid (fine near ``smallest``, where magnetic forces change fastest),
     takes the last grid point above the level and refines the crossing after it with
-    Brent's method. A larger level can only give a smaller or equal result when the
+    Brent's method (or, for a vectorized function, by batches of 32 points per call). A larger level can only give a smaller or equal result when the
     function decreases with distance past its last crossing.
 
     Examples
@@ -76,5 +76,26 @@ def largest_exceeding(function, level: float, search_limit: float, smallest: flo
         values = np.array([function(x) for x in grid])
     above = np.nonzero(values > level)[0]
     last = above[-1]
+    if vectorized:
+        return _refine_in_batches(function, level, grid[last], grid[last + 1], xtol)
     return float(bracketed_root(lambda x: scalar(x) - level, grid[last], grid[last + 1], xtol=xtol,
                                 rtol=1e-12))
+
+
+def _refine_in_batches(function, level, low, high, xtol, points=32):
+    """Shrink [low, high] (function above the level at low, not at high) by 33 per call.
+
+    For a vectorized function one call at 32 points costs about as much as one at a single
+    point, so five calls narrow a 1 cm bracket to 1e-9 m where Brent's method needed about
+    nine; the last crossing inside each batch is kept, as in the scan.
+    """
+    while high - low > max(xtol, 1e-12 * high):
+        inner = np.linspace(low, high, points + 2)[1:-1]
+        values = np.asarray(function(inner), dtype=float).ravel()
+        above = np.nonzero(values > level)[0]
+        if len(above):
+            low = inner[above[-1]]
+            high = inner[above[-1] + 1] if above[-1] + 1 < points else high
+        else:
+            high = inner[0]
+    return float(0.5 * (low + high))

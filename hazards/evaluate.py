@@ -7,6 +7,7 @@
 from __future__ import annotations
 
 from hazards.findings import BLOCKING, Finding, deferral_line
+from hazards.grouping import group_findings
 
 __all__ = ["evaluate"]
 
@@ -27,7 +28,10 @@ def evaluate(setup, assessment, thresholds) -> list[Finding]:
     -------
     list of Finding
         Most pressing first; never raises for a rule's failure (that becomes a ``blocking``
-        finding saying which check could not run and why).
+        finding saying which check could not run and why). Findings that say the same thing
+        about different parts are merged into one naming them all, and remarks of the
+        calculation that another finding already states are left out
+        (:func:`hazards.grouping.group_findings`).
     """
     from hazards.rules import RULES
 
@@ -44,7 +48,7 @@ def evaluate(setup, assessment, thresholds) -> list[Finding]:
             finding.deferral = deferral
             finding.concern = finding.concern or concern
         findings.extend(produced)
-    return sorted(findings, key=lambda f: -f.rank)
+    return group_findings(sorted(findings, key=lambda f: -f.rank))
 
 
 def _could_not_run(concern: str, error: Exception) -> Finding:

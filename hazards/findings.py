@@ -12,7 +12,8 @@ Three severities, from most to least pressing:
 
 A finding carries the figures it rests on (label, value with unit), why it matters, the usual
 cautions, checklist items, the thresholds used with their sources, and the line deferring to
-the site's own rules and competent persons.
+the site's own rules and competent persons. A finding merged from several that said the same of
+different parts (``hazards.grouping``) lists those parts in ``parts``.
 """
 from __future__ import annotations
 
@@ -68,6 +69,9 @@ class Finding:
     sources: list[tuple[str, str]] = field(default_factory=list)
     deferral: str = DEFERRAL
     concern: str = ""
+    #: The ids of the parts a merged finding applies to, in natural order; empty for a finding
+    #: that a rule gave as it is (``hazards.grouping.group_findings`` fills it).
+    parts: list[str] = field(default_factory=list)
 
     def __post_init__(self):
         if self.severity not in SEVERITIES:
@@ -90,7 +94,7 @@ class Finding:
             "figures": [{"label": label, "value": value} for label, value in self.figures],
             "why": self.why, "cautions": list(self.cautions), "checklist": list(self.checklist),
             "sources": [{"threshold": tid, "source": text} for tid, text in self.sources],
-            "deferral": self.deferral,
+            "deferral": self.deferral, "parts": list(self.parts),
         }
 
 

@@ -16,6 +16,7 @@ from planner.physics.bodies import MagnetBody, rotation_from_axis
 from planner.physics.fields import field_of_bodies
 from planner.physics.zones import field_contours, keep_out_radius, zone_reach
 from planner.physics.zones.keep_out import keep_out_radii
+from tests.physics.polygons import inside, polygon_area
 
 RNG = np.random.default_rng(20261201)
 
@@ -176,20 +177,6 @@ def test_consumer_magnets_reach_half_a_millitesla_within_the_published_band(diam
 
 
 # --- contours ----------------------------------------------------------------------------
-
-def polygon_area(line):
-    x, y = line[:, 0], line[:, 1]
-    return 0.5 * abs(np.dot(x, np.roll(y, 1)) - np.dot(y, np.roll(x, 1)))
-
-
-def inside(polygon, points):
-    """Even-odd rule point-in-polygon."""
-    x, y = points[:, 0][:, None], points[:, 1][:, None]
-    x0, y0 = polygon[:-1, 0][None], polygon[:-1, 1][None]
-    x1, y1 = polygon[1:, 0][None], polygon[1:, 1][None]
-    crosses = ((y0 > y) != (y1 > y)) & (x < x0 + (y - y0) * (x1 - x0) / (y1 - y0 + 1e-300))
-    return np.sum(crosses, axis=1) % 2 == 1
-
 
 def test_contours_of_a_dipole_match_axis_and_equator_radii():
     ball = sphere([0, 0, 0], [0, 0, 1.2])

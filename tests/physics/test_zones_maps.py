@@ -25,6 +25,7 @@ from planner.physics.bodies import MagnetBody, rotation_from_axis
 from planner.physics.fields import field_of_bodies
 from planner.physics.zones.contours import contour_lines, field_contours, field_grid, plane_grid
 from planner.physics.zones.refine import interpolation_remainder, plane_points, refined_plane_grid
+from tests.physics.polygons import inside
 
 RNG = np.random.default_rng(20261202)
 
@@ -179,15 +180,6 @@ def test_dipole_in_its_meridian_plane_matches_axis_and_equator():
 
 
 # --- nested and closed lines --------------------------------------------------------------
-
-def inside(polygon, points):
-    """Even-odd rule point-in-polygon."""
-    x, y = points[:, 0][:, None], points[:, 1][:, None]
-    x0, y0 = polygon[:-1, 0][None], polygon[:-1, 1][None]
-    x1, y1 = polygon[1:, 0][None], polygon[1:, 1][None]
-    crosses = ((y0 > y) != (y1 > y)) & (x < x0 + (y - y0) * (x1 - x0) / (y1 - y0 + 1e-300))
-    return np.sum(crosses, axis=1) % 2 == 1
-
 
 def test_radial_square_has_a_hole_around_its_field_free_centre():
     bodies = radial_square()

@@ -1,7 +1,8 @@
 """The readable terminal summary of an assessment: figures first, then findings by severity.
 
 Reports never compute physics: everything printed here is read from the Assessment and its
-findings. Every threshold is printed with its source, its confidence, and where its value came
+findings. Rows and blocks of figures that print the same values for different parts (twelve
+identical stations) are printed once, naming every part (:func:`reports.collapse.collapse_rows`). Every threshold is printed with its source, its confidence, and where its value came
 from (the default table or the site's rules).
 """
 from __future__ import annotations
@@ -11,6 +12,7 @@ import textwrap
 from hazards.findings import (DEFERRAL, SEVERITIES, SEVERITY_MEANINGS, deferral_line, is_number, plain_number, show,
                               show_field, threshold_text)
 from planner.units import MICRO_ASCII, format_quantity
+from reports.collapse import collapse_rows
 from reports.pdf.formatting import key_label
 
 __all__ = ["render_terminal"]
@@ -68,7 +70,9 @@ def _heading(out, text):
 
 
 def _wrap(text, indent="  ", later=None) -> list[str]:
-    return textwrap.wrap(str(text), WIDTH, initial_indent=indent, subsequent_indent=later or indent + "  ") or [indent]
+    """Lines of at most WIDTH characters; never broken at a hyphen, so ids (``magnet-01``) stay whole."""
+    return textwrap.wrap(str(text), WIDTH, initial_indent=indent, subsequent_indent=later or indent + "  ",
+                         break_on_hyphens=False) or [indent]
 
 
 def _table(out, headers, rows):
@@ -95,14 +99,25 @@ def _magnets(out, assessment):
     rows = []
     for m in assessment.magnets:
         index = plain_number(m.flux_index_kG2_mm2) if is_number(m.flux_index_kG2_mm2) else "n/a"
-        rows.append([m.id, f"{m.shape} {m.size}", m.material, show_field(m.remanence_T), m.count,
-                     show(m.mass_kg, "mass"), show_field(m.pole_face_field_T), index,
-                     "yes" if m.fits_small_parts_cylinder else "no"])
-    _table(out, ["magnet", "shape and size", "grade", "remanence", "pieces", "mass", "face field",
-                 "flux index kG^2 mm^2", "small part"], rows)
+        rows.append(([m.id], [f"{m.shape} {m.size}", m.material, show_field(m.remanence_T), m.count,
+                              show(m.mass_kg, "mass"), show_field(m.pole_face_field_T), index,
+                              "yes" if m.fits_small_parts_cylinder else "no"]))
+    _collapsed_table(out, ["magnet", "shape and size", "grade", "remanence", "pieces", "mass", "face field",
+                           "flux index kG^2 mm^2", "small part"], rows, lambda row: [row.names(code=False)], "magnets")
     notes = {m.remanence_note for m in assessment.magnets if m.remanence_note}
     for note in sorted(notes):
         out += _wrap(note)
+
+
+def _collapsed_table(out, headers, rows, names, what):
+    """A table of ``(parts, values)`` rows, rows that differ only in their parts printed once.
+
+    ``names(row)`` gives the leading cells naming a :class:`reports.collapse.CollapsedRow`'s parts.
+    """
+    collapsed = collapse_rows(rows)
+    _table(out, headers, [names(row) + list(row.values) for row in collapsed])
+    if any(row.merged for row in collapsed):
+        out.append(f"  (a row naming several {what} gives the figures of each of them)")
 
 
 def _keep_out(out, assessment):
@@ -115,8 +130,11 @@ def _keep_out(out, assessment):
     for threshold_id, rows in by_threshold.items():
         threshold = assessment.threshold(threshold_id)
         value = threshold_text(threshold) if threshold else show_field(rows[0].threshold_T)
-        distances = ", ".join(f"{r.magnet_id} {show(r.distance_m, 'length')}" for r in rows)
-        out += _wrap(f"{threshold_id} at {value}: {distances}")
+        # magnets at the same printed distance are named together; a distance keeps its unit on its line
+        distances = "; ".join(f"{row.values[0]} from {'each of ' if row.merged else ''}{row.names(code=False)}"
+                              for row in collapse_rows(([r.magnet_id], [show(r.distance_m, 'length').replace(' ', NO_BREAK)])
+                                                       for r in rows))
+        out += [line.replace(NO_BREAK, " ") for line in _wrap(f"{threshold_id} at {value}: {distances}")]
         if threshold:
             source = f"source: {threshold.source} [{threshold.confidence}]"
             if threshold.note:
@@ -148,22 +166,25 @@ def _pairs(out, assessment):
     rows = []
     for p in assessment.pairs:
         bound = " (upper bound)" if p.upper_bound else ""
-        rows.append([f"{p.magnet_id} -> {p.other_id}", p.approach, show(p.force_at_contact_N, "force") + bound,
-                     show(p.force_at_finger_gap_N, "force"), show(p.snap_distance_bench_m, "length"),
-                     show(p.snap_distance_hand_m, "length"), show(p.pinch_energy_J, "energy"),
-                     show(p.impact_speed_m_per_s, "speed")])
-    _table(out, ["pair", "by", "force at contact", "at finger gap", "snaps (bench)", "snaps (hand)",
-                 "pinch energy", "impact speed"], rows)
+        rows.append(([p.magnet_id, p.other_id],
+                     [p.approach, show(p.force_at_contact_N, "force") + bound, show(p.force_at_finger_gap_N, "force"),
+                      show(p.snap_distance_bench_m, "length"), show(p.snap_distance_hand_m, "length"),
+                      show(p.pinch_energy_J, "energy"), show(p.impact_speed_m_per_s, "speed")]))
+    _collapsed_table(out, ["pair", "by", "force at contact", "at finger gap", "snaps (bench)", "snaps (hand)",
+                           "pinch energy", "impact speed"], rows, lambda row: [f"{row.names(0, code=False)} -> {row.names(1, code=False)}"],
+                     "magnets")
 
 
 def _projectiles(out, assessment):
     if not assessment.projectiles:
         return
     _heading(out, "Loose steel")
-    rows = [[p.item_id, p.magnet_id, show(p.distance_m, "length"), show(p.pull_off_distance_m, "length"),
-             show(p.lift_distance_m, "length"), "lifted" if p.within_lift else "pulled" if p.within_pull else "no"]
+    rows = [([p.item_id, p.magnet_id], [show(p.distance_m, "length"), show(p.pull_off_distance_m, "length"),
+                                        show(p.lift_distance_m, "length"),
+                                        "lifted" if p.within_lift else "pulled" if p.within_pull else "no"])
             for p in assessment.projectiles]
-    _table(out, ["item", "magnet", "distance", "pulled within", "lifted within", "moves?"], rows)
+    _collapsed_table(out, ["item", "magnet", "distance", "pulled within", "lifted within", "moves?"], rows,
+                     lambda row: [row.names(0, code=False), row.names(1, code=False)], "parts")
 
 
 def _value_text(key: str, value) -> tuple[str, str]:
@@ -189,17 +210,24 @@ def _induction(out, assessment):
     if not assessment.induction:
         return
     _heading(out, "Induction and eddy currents")
+    blocks = []
     for row in assessment.induction:
-        out.append(f"  {row.activity_id} ({row.kind.replace('_', ' ')})")
         values = row.values if isinstance(row.values, dict) else {}
         # a value and its unit stay on one line: joined by a no-break space while wrapping
         parts = []
         for key, value in values.items():
             words, text = _value_text(key, value)
             parts.append(f"{words}: {text.replace(' ', NO_BREAK) if isinstance(value, (int, float)) else text}")
-        out += [line.replace(NO_BREAK, " ") for line in _wrap("; ".join(parts), "      ")]
-        for warning in row.warnings:
+        blocks.append(([row.activity_id], [row.kind.replace("_", " "), "; ".join(parts), tuple(map(str, row.warnings))]))
+    collapsed = collapse_rows(blocks)
+    for block in collapsed:
+        kind, text, warnings = block.values
+        out.append(f"  {block.names(code=False)} ({kind})")
+        out += [line.replace(NO_BREAK, " ") for line in _wrap(text, "      ")]
+        for warning in warnings:
             out += _wrap(f"remark: {warning}", "      ")
+    if any(block.merged for block in collapsed):
+        out.append("  (a block naming several activities gives the figures of each of them)")
 
 
 def _shipping(out, assessment):

@@ -1,9 +1,9 @@
 """One finding per distinct hazard: findings that say the same thing about different parts merge.
 
 A setup with twelve identical stations makes each rule say the same thing twelve times, once per
-station. :func:`group_findings` merges such findings into one that names every part it applies to,
-and drops the remarks of the calculation that only repeat what another finding already states.
-It is a pure function over a list of findings, called once at the end of
+station. :func:`group_findings` merges such findings into one that names every part it applies to.
+(A remark of the calculation that only repeats another finding is not written by its rule in
+the first place: see :func:`hazards.rules.electrical._remarks`.) It is a pure function over a list of findings, called once at the end of
 :func:`hazards.evaluate.evaluate`.
 
 What counts as "the same thing"
@@ -41,23 +41,12 @@ import re
 
 from hazards.findings import Finding
 
-__all__ = ["group_findings", "drop_restated_remarks", "named_parts", "finding_kind", "name_parts",
-           "natural_key"]
+__all__ = ["group_findings", "named_parts", "finding_kind", "name_parts", "natural_key"]
 
 _BACKTICKED = re.compile(r"`([^`]+)`")
 _ID_CHARACTER = r"A-Za-z0-9_\-"
 # Markers standing for a part in a template; \x00 never appears in text written by the rules.
 _MARK = re.compile(r"\x00([BP])(\d+)\x00")
-
-#: Remarks of the calculation (``<concern>.<activity>.remarks``) that another finding about the same
-#: activity already states: (pattern of the remark, the other finding's id suffix, its figure that
-#: carries the same number). A remark is dropped only when that finding exists and its figure agrees
-#: with the number in the remark; any remark not listed here is kept, word for word.
-RESTATED_REMARKS = [
-    (re.compile(r"the meter would be driven to (?P<number>[0-9.]+) times its full scale"), "meter",
-     "peak / full scale"),
-]
-
 
 def natural_key(text: str) -> tuple:
     """Sort key putting ``drop-2`` before ``drop-10``: digit runs compare as numbers.
@@ -168,45 +157,8 @@ def name_parts(ids, code: bool = True, compact: bool = True) -> str:
     return pieces[0] if len(pieces) == 1 else ", ".join(pieces[:-1]) + " and " + pieces[-1]
 
 
-def drop_restated_remarks(findings) -> list:
-    """Findings without the remarks of the calculation that another finding already states.
-
-    A remark finding (id ending ``.remarks``) loses each sentence of :data:`RESTATED_REMARKS` whose
-    number agrees with the figure of the finding that states it (same id stem); it is dropped when
-    nothing is left, and kept with the rest of its text otherwise. Inputs are not changed.
-
-    Parameters
-    ----------
-    findings : list of Finding
-
-    Returns
-    -------
-    list of Finding
-    """
-    findings = list(findings)
-    by_id = {f.id: f for f in findings}
-    result = []
-    for finding in findings:
-        if not finding.id.endswith(".remarks"):
-            result.append(finding)
-            continue
-        stem = finding.id.removesuffix(".remarks")
-        why = finding.why
-        for pattern, suffix, label in RESTATED_REMARKS:
-            other = by_id.get(f"{stem}.{suffix}")
-            stated = _figure_number(other, label) if other is not None else None
-            if stated is None:
-                continue
-            why = pattern.sub(lambda match: "" if _agrees(match.group("number"), stated) else match.group(0), why)
-        why = " ".join(why.split())
-        if not why:
-            continue
-        result.append(finding if why == finding.why else dataclasses.replace(finding, why=why))
-    return result
-
-
 def group_findings(findings) -> list:
-    """Merge findings that say the same thing about different parts; drop restated remarks.
+    """Merge findings that say the same thing about different parts.
 
     Parameters
     ----------
@@ -225,7 +177,7 @@ def group_findings(findings) -> list:
     -----
     The rules for merging and for the wording of a merged finding are in the module docstring.
     """
-    findings = drop_restated_remarks(findings)
+    findings = list(findings)
     buckets: dict[tuple, list[tuple[int, tuple[str, ...]]]] = {}
     for index, finding in enumerate(findings):
         parts = named_parts(finding)
@@ -375,23 +327,3 @@ def _follows(previous: str, following: str) -> bool:
     if not a or not b or a.group(1) != b.group(1) or int(b.group(2)) != int(a.group(2)) + 1:
         return False
     return len(a.group(2)) == len(b.group(2)) or not (a.group(2).startswith("0") or b.group(2).startswith("0"))
-
-
-def _figure_number(finding, label: str):
-    for figure_label, value in finding.figures:
-        if figure_label == label:
-            try:
-                return float(str(value).split()[0].replace(",", ""))
-            except (ValueError, IndexError):
-                return None
-    return None
-
-
-def _agrees(written: str, stated: float) -> bool:
-    """The remark's number (one decimal) and the figure (three significant figures) are roundings
-    of the same value: they differ by at most half a unit in each last place."""
-    try:
-        number = float(written.rstrip("."))
-    except ValueError:
-        return False
-    return abs(number - stated) <= 0.05 + 0.005 * abs(stated) + 1e-12

@@ -17,11 +17,10 @@ from hypothesis import strategies as st
 
 from hazards.evaluate import evaluate
 from hazards.findings import ACTION, BLOCKING, NOTE, Finding
-from hazards.grouping import drop_restated_remarks, finding_kind, group_findings, name_parts, named_parts
+from hazards.grouping import finding_kind, group_findings, name_parts, named_parts
 from hazards.thresholds import effective_thresholds
-from planner.assessment import InductionFigures
 from planner.setup.model import SiteRules
-from tests.hazards import assessment, setup_from
+from tests.hazards import assessment
 
 T = effective_thresholds(SiteRules())
 evaluate_module = sys.modules["hazards.evaluate"]   # the package exports the function under the same name
@@ -164,36 +163,6 @@ def test_inputs_are_not_changed():
     assert inputs == copies
 
 
-# --- remarks of the calculation ------------------------------------------------------------------
-
-def _drop(activity, warnings, ratio=17.9):
-    # peak current / full scale = 1.79 mA / 100 uA = 17.9 (arithmetic)
-    return InductionFigures(activity_id=activity, kind="pass_through_coil",
-                            values={"peak_current_A": ratio * 1e-4, "full_scale_A": 1e-4, "peak_to_full_scale": ratio},
-                            warnings=list(warnings))
-
-
-def test_a_remark_that_only_repeats_the_meter_finding_is_dropped():
-    a = assessment(induction=[_drop("drop-1", ["the meter would be driven to 17.9 times its full scale"])])
-    found = evaluate(setup_from(), a, T)
-    assert not [f for f in found if f.id.endswith(".remarks")]
-    assert [f for f in found if f.id == "electrical.drop-1.meter"]   # the meter finding says it
-
-
-def test_a_remark_saying_something_new_is_kept_without_the_repeated_part():
-    new = "the coil's inductance shapes the current pulse (included)"
-    a = assessment(induction=[_drop("drop-1", ["the meter would be driven to 17.9 times its full scale", new])])
-    remarks = [f for f in evaluate(setup_from(), a, T) if f.id.endswith(".remarks")]
-    assert [r.why for r in remarks] == [new]
-
-
-def test_a_remark_whose_number_disagrees_with_the_finding_is_kept():
-    meter_finding = meter("drop-1")     # says 17.9
-    remark = Finding(id="electrical.drop-1.remarks", severity=NOTE, title="Remarks on `drop-1` from the calculation",
-                     why="the meter would be driven to 30.0 times its full scale")
-    assert drop_restated_remarks([meter_finding, remark]) == [meter_finding, remark]
-
-
 # --- properties over random lists ----------------------------------------------------------------
 
 _parts = st.sampled_from(["drop-1", "drop-2", "drop-3", "drop-10", "m-a", "frame"])
@@ -235,8 +204,9 @@ def test_teaching_lab_finding_count_drops(teaching_lab):
     before, after = teaching_lab
     # From the setup file: 12 drops each drive a meter past full scale (12 findings -> 1), 12 loose
     # magnets are each a hazardous small magnet (12 -> 1), 6 magnets sit over bench 1's steel frame
-    # (6 handling findings -> 1), and the 12 remarks only repeat the meter figure (dropped).
-    assert len(before) - len(after) >= 11 + 11 + 5 + 12
+    # (6 handling findings -> 1). (The drops' only remark repeats the meter figure; the rule does
+    # not write it, tests/hazards/test_rules_electrical_shipping.py.)
+    assert len(before) - len(after) >= 11 + 11 + 5
     # Measured after merging: 9 findings, one per distinct hazard (twelve identical stations).
     assert len(after) <= 9
 
@@ -244,11 +214,12 @@ def test_teaching_lab_finding_count_drops(teaching_lab):
 def test_teaching_lab_keeps_every_kind_of_hazard(teaching_lab):
     before, after = teaching_lab
     kinds_before, kinds_after = {finding_kind(f) for f in before}, {finding_kind(f) for f in after}
-    # Only the remarks go, and each dropped remark's activity is named by the meter finding.
-    assert kinds_before - kinds_after == {"electrical.*.remarks"} and kinds_after <= kinds_before
+    # Merging only joins findings: no kind of hazard is lost.
+    assert kinds_before == kinds_after
+    # Every activity with a meter finding before merging is named by the merged one.
     meter_parts = {p for f in after if finding_kind(f) == "electrical.*.meter" for p in f.parts}
-    dropped = {re.sub(r"^electrical\.(.*)\.remarks$", r"\1", f.id) for f in before if f.id.endswith(".remarks")}
-    assert dropped and dropped <= meter_parts
+    metered = {re.sub(r"^electrical\.(.*)\.meter$", r"\1", f.id) for f in before if f.id.endswith(".meter")}
+    assert len(metered) == 12 and metered == meter_parts
     # Severity counts on the cover count merged findings; no severity disappears.
     assert {f.severity for f in before} == {f.severity for f in after}
 

@@ -8,6 +8,7 @@ from scipy.constants import mu_0
 from hazards.findings import ACTION, BLOCKING, NOTE
 from hazards.rules import electrical, shipping
 from hazards.thresholds import effective_thresholds
+from planner.assessment import InductionFigures
 from planner.setup.model import SiteRules
 from tests.hazards import assessment, ids, induction, magnet, package, setup_from
 
@@ -102,6 +103,46 @@ def test_missing_induction_figures_are_reported():
     setup = setup_from(COIL.format(connection=METER, site=""))
     found = electrical(setup, assessment(magnets=[magnet()]), list(T.values()))
     assert [f.id for f in found] == ["electrical.missing.the-electrical-figures-of-run"]
+
+
+# --- remarks of the calculation --------------------------------------------------------------------
+
+def _remarks(warnings, values=None):
+    """The electrical rule's findings for one drop through the metered coil with these remarks."""
+    # peak current / full scale = 1.79 mA / 100 uA = 17.9 (arithmetic)
+    values = {"peak_current_A": 1.79e-3, "full_scale_A": 1e-4, "peak_to_full_scale": 17.9} if values is None else values
+    figures = InductionFigures(activity_id="run", kind="pass_through_coil", values=values, warnings=list(warnings))
+    setup = setup_from(COIL.format(connection=METER, site=""))
+    return ids(electrical(setup, assessment(magnets=[magnet()], induction=[figures]), list(T.values())))
+
+
+def test_a_remark_that_only_repeats_the_meter_finding_is_not_written():
+    found = _remarks(["the meter would be driven to 17.9 times its full scale"])
+    assert "electrical.run.remarks" not in found
+    assert found["electrical.run.meter"].figures[-1] == ("peak / full scale", "17.9")   # the finding says it
+
+
+def test_a_meter_remark_with_another_number_or_without_a_meter_finding_is_kept():
+    # 30.0 is not 17.9 to one decimal: the remark says something the finding does not
+    found = _remarks(["the meter would be driven to 30.0 times its full scale"])
+    assert found["electrical.run.remarks"].why == "The meter would be driven to 30.0 times its full scale."
+    # no ratio and no currents among the figures: no meter finding, so the remark is the only place it is said
+    found = _remarks(["the meter would be driven to 17.9 times its full scale"], values={})
+    assert "electrical.run.meter" not in found
+    assert found["electrical.run.remarks"].why == "The meter would be driven to 17.9 times its full scale."
+
+
+def test_each_remark_is_its_own_sentence():
+    found = _remarks(["the meter would be driven to 17.9 times its full scale",
+                      "the block is modelled as a round magnet of the same volume and height",
+                      "the speed is not small against 2/(mu0 sigma d): the low-speed drag overstates the braking"])
+    # Written out by hand: capital letter, full stop, and the restated meter remark left out.
+    assert found["electrical.run.remarks"].why == (
+        "The block is modelled as a round magnet of the same volume and height. The speed is not small against "
+        "2/(mu0 sigma d): the low-speed drag overstates the braking.")
+    # a remark that opens with a symbol keeps its spelling; one that ends a sentence gets no second stop
+    found = _remarks(["mu0 sigma d is large", "the coil is warm."], values={})
+    assert found["electrical.run.remarks"].why == "mu0 sigma d is large. The coil is warm."
 
 
 # --- shipping ---------------------------------------------------------------------------------

@@ -5,11 +5,48 @@ so a rule can never fail on an attribute that is simply absent.
 """
 from __future__ import annotations
 
-from hazards.findings import is_number
+import dataclasses
 
-__all__ = ["items", "magnet_figures_by_id", "setup_magnets_by_id", "activities_of", "audience_has_children",
+from hazards.findings import ACTION, Finding, is_number, missing_figure
+
+__all__ = ["missing_figure_of", "items", "magnet_figures_by_id", "setup_magnets_by_id", "activities_of", "audience_has_children",
            "public_present", "implant_wearers_screened", "reaches", "largest_distance_per_magnet",
            "zone_max_field"]
+
+
+def missing_figure_of(concern: str, what: str, part: str, checklist: str, severity: str = ACTION) -> Finding:
+    """The finding for a figure of one part (an activity, a zone) that is not in the assessment.
+
+    Like :func:`hazards.findings.missing_figure`, with the part's id written between backticks
+    in the title (as every rule names parts) and standing alone in the finding's id,
+    ``<concern>.<part>.missing``: so the same gap at twelve identical stations is one finding
+    naming them all (:func:`hazards.grouping.group_findings` merges on the backticked ids).
+
+    Parameters
+    ----------
+    concern : str
+        The rule's concern (``electrical``).
+    what : str
+        The missing figure, with ``{part}`` where the id goes: ``the electrical figures of {part}``.
+    part : str
+        The id of the part.
+    checklist : str
+        What to do instead; may name the part between backticks.
+    severity : str
+        The finding's severity.
+
+    Returns
+    -------
+    Finding
+
+    Examples
+    --------
+    >>> finding = missing_figure_of("electrical", "the electrical figures of {part}", "drop-01", "Measure it.")
+    >>> finding.id, finding.title
+    ('electrical.drop-01.missing', 'Not checked: the electrical figures of `drop-01` (not among the computed figures)')
+    """
+    finding = missing_figure(concern, what.format(part=f"`{part}`"), checklist, severity=severity)
+    return dataclasses.replace(finding, id=f"{concern}.{part}.missing")
 
 
 def items(container, name: str) -> list:

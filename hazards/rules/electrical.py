@@ -3,9 +3,9 @@ from __future__ import annotations
 
 import re
 
-from hazards.findings import ACTION, BLOCKING, NOTE, Finding, is_number, missing_figure, show, source_entry, \
-    threshold_map, threshold_text
-from hazards.rules.common import activities_of, items
+from hazards.findings import ACTION, BLOCKING, NOTE, Finding, is_number, show, source_entry, threshold_map, \
+    threshold_text
+from hazards.rules.common import activities_of, items, missing_figure_of
 
 CONCERN = "electrical"
 DEFAULT_LIMITS = "IEC 61010-1 ed. 3"
@@ -48,8 +48,8 @@ def electrical(setup, assessment, thresholds) -> list:
     done = {f.activity_id for f in figures}
     for activity in activities_of(setup, *_INDUCTION_KINDS):
         if activity.id not in done:
-            findings.append(missing_figure(
-                CONCERN, f"the electrical figures of {activity.id}",
+            findings.append(missing_figure_of(
+                CONCERN, "the electrical figures of {part}", activity.id,
                 "Measure the voltage and current with a meter on a safe range before the demonstration.",
                 severity=BLOCKING if activity.kind == "switch_off" else ACTION))
     for row in figures:

@@ -1,9 +1,9 @@
 """Cards, watches, storage media and instruments: the zones they sit in and the field there."""
 from __future__ import annotations
 
-from hazards.findings import ACTION, NOTE, Finding, is_number, missing_figure, show, show_field, source_entry, \
+from hazards.findings import ACTION, NOTE, Finding, is_number, show, show_field, source_entry, \
     threshold_map, threshold_text
-from hazards.rules.common import items, largest_distance_per_magnet, reaches, zone_max_field
+from hazards.rules.common import items, largest_distance_per_magnet, missing_figure_of, reaches, zone_max_field
 
 CONCERN = "objects"
 
@@ -27,8 +27,8 @@ def objects(setup, assessment, thresholds) -> list:
             continue
         field = zone_max_field(assessment, zone.id)
         if field is None:
-            findings.append(missing_figure(
-                CONCERN, f"the largest field in zone {zone.id}",
+            findings.append(missing_figure_of(
+                CONCERN, "the largest field in zone {part}", zone.id,
                 f"Measure the field in `{zone.id}` with a gaussmeter before work starts."))
             continue
         groups: dict[str, list[str]] = {}

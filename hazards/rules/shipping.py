@@ -1,9 +1,9 @@
 """Sending magnets by air: the field at 2.1 m and 4.6 m from the package (UN 2807)."""
 from __future__ import annotations
 
-from hazards.findings import ACTION, BLOCKING, NOTE, Finding, is_number, missing_figure, show, show_field, \
+from hazards.findings import ACTION, BLOCKING, NOTE, Finding, is_number, show, show_field, \
     source_entry, threshold_map, threshold_text
-from hazards.rules.common import activities_of, items
+from hazards.rules.common import activities_of, items, missing_figure_of
 
 CONCERN = "shipping"
 EDITION = ("IATA Dangerous Goods Regulations, Packing Instruction 953, as in editions since about 2017 "
@@ -24,9 +24,9 @@ def shipping(setup, assessment, thresholds) -> list:
     known = {p.activity_id for p in packages}
     for activity in activities_of(setup, "ship_package"):
         if activity.id not in known:
-            findings.append(missing_figure(CONCERN, f"the field around package {activity.id}",
-                                           "Measure the field 2.1 m and 4.6 m from the package before sending it.",
-                                           severity=BLOCKING))
+            findings.append(missing_figure_of(CONCERN, "the field around package {part}", activity.id,
+                                              "Measure the field 2.1 m and 4.6 m from the package before sending it.",
+                                              severity=BLOCKING))
     advice = ["Fit steel keepers or a steel box, or pack the magnets in pairs facing opposite ways, to shield "
               "the field; then measure it at 2.1 m and 4.6 m.",
               "Surface transport (road, rail) is not restricted by these rules."]

@@ -5,6 +5,7 @@ import math
 import pytest
 from scipy.constants import mu_0
 
+from hazards.evaluate import evaluate
 from hazards.findings import ACTION, BLOCKING, NOTE
 from hazards.rules import electrical, shipping
 from hazards.thresholds import effective_thresholds
@@ -102,7 +103,41 @@ def test_mains_coils_need_a_competent_person(site, severity):
 def test_missing_induction_figures_are_reported():
     setup = setup_from(COIL.format(connection=METER, site=""))
     found = electrical(setup, assessment(magnets=[magnet()]), list(T.values()))
-    assert [f.id for f in found] == ["electrical.missing.the-electrical-figures-of-run"]
+    assert [f.id for f in found] == ["electrical.run.missing"]
+    assert found[0].title == "Not checked: the electrical figures of `run` (not among the computed figures)"
+
+
+STATIONS = """
+coils:
+{coils}
+activities:
+{activities}
+"""
+
+
+def test_the_same_gap_at_identical_stations_is_one_finding_naming_them_all():
+    # Three identical stations, none with figures: three gaps that differ only in the activity.
+    coils = "\n".join(f"  - {{id: coil-{n}, turns: 500, inner_diameter: 16 mm, length: 30 mm, wire_diameter: "
+                      f"0.25 mm, at: [{n} m, 0 m, 5 cm], connected_to: {{kind: meter, full_scale_current: 100 uA, "
+                      f"resistance: 1 kohm}}}}" for n in (1, 2, 3))
+    activities = "\n".join(f"  - {{id: drop-{n}, kind: pass_through_coil, magnet: disc, coil: coil-{n}, "
+                           f"drop_height: 10 cm}}" for n in (1, 2, 3))
+    setup = setup_from(STATIONS.format(coils=coils, activities=activities))
+    found = evaluate(setup, assessment(magnets=[magnet()]), list(T.values()))
+    gaps = [f for f in found if f.title.startswith("Not checked: the electrical figures")]
+    # Wording from hazards/grouping.py's rules: a run of three consecutive numbers is a range.
+    assert [f.title for f in gaps] == ["Not checked: the electrical figures of `drop-1` to `drop-3` "
+                                       "(not among the computed figures)"]
+    assert gaps[0].parts == ["drop-1", "drop-2", "drop-3"]
+
+
+def test_a_package_without_figures_is_named_between_backticks():
+    setup = setup_from("activities:\n  - {id: send, kind: ship_package, magnets: [disc], "
+                       "package_size: [10 cm, 10 cm, 10 cm]}\n")
+    found = ids(shipping(setup, assessment(magnets=[magnet()]), list(T.values())))
+    assert found["shipping.send.missing"].title == ("Not checked: the field around package `send` "
+                                                    "(not among the computed figures)")
+    assert found["shipping.send.missing"].severity == BLOCKING
 
 
 # --- remarks of the calculation --------------------------------------------------------------------

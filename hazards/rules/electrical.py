@@ -181,7 +181,8 @@ def _mains(setup) -> list:
             continue
         found.append(Finding(
             id=f"electrical.{coil.id}.mains", severity=ACTION if persons else BLOCKING, concern=CONCERN,
-            title=f"Coil `{coil.id}` is powered from the mains",
+            # the part opens the title, so merged coils read "Each of `coil-01` to `coil-12` is a coil ..."
+            title=f"`{coil.id}` is a coil powered from the mains",
             why="Mains-powered apparatus needs the site's electrical safety rules and a competent person, "
                 "whatever the computed figures say (common practice).",
             checklist=["Have the apparatus inspected and approved under the site's electrical rules.",

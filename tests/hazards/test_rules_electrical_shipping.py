@@ -98,6 +98,19 @@ def test_mains_coils_need_a_competent_person(site, severity):
     # Common practice (standards.md, electrical): mains apparatus needs the site's rules and a competent person.
     found = _electrical({}, site=site, connection=MAINS)
     assert found["electrical.coil.mains"].severity == severity
+    assert found["electrical.coil.mains"].title == "`coil` is a coil powered from the mains"
+
+
+def test_identical_mains_coils_read_well_as_one_finding():
+    coils = "\n".join(f"  - {{id: coil-{n:02d}, turns: 500, inner_diameter: 16 mm, length: 30 mm, wire_diameter: "
+                      f"0.25 mm, at: [{n} m, 0 m, 5 cm], connected_to: {{kind: supply, current: 1 A, frequency: "
+                      f"50 Hz, voltage: 230 V, mains: true}}}}" for n in range(1, 13))
+    setup = setup_from(STATIONS.format(coils=coils, activities="  []"))
+    found = [f for f in evaluate(setup, assessment(magnets=[magnet()]), list(T.values())) if f.id.endswith(".mains")]
+    # Twelve findings that differ only in the coil are one; the title opens with the part, so
+    # hazards.grouping writes "Each of ..." and keeps the verb singular (its docstring's rule).
+    assert [f.title for f in found] == ["Each of `coil-01` to `coil-12` is a coil powered from the mains"]
+    assert found[0].parts == [f"coil-{n:02d}" for n in range(1, 13)]
 
 
 def test_missing_induction_figures_are_reported():

@@ -260,7 +260,9 @@ def _findings(out, assessment):
         for f in group:
             out += _wrap(f"* {f.title}", "  ", "    ")
             for label, value in f.figures:
-                out += _wrap(f"{label}: {value}", "      ", "        ")
+                # a short value ("87 mm") stays on one line with its unit; a list of ids may wrap
+                value = str(value).replace(" ", NO_BREAK) if len(str(value)) <= 24 else str(value)
+                out += [line.replace(NO_BREAK, " ") for line in _wrap(f"{label}: {value}", "      ", "        ")]
             if f.why:
                 out += _wrap(f"why: {f.why}", "      ", "        ")
             for caution in f.cautions:

@@ -8,8 +8,9 @@ from __future__ import annotations
 import dataclasses
 
 from hazards.findings import ACTION, Finding, is_number, missing_figure
+from hazards.grouping import name_parts, natural_key
 
-__all__ = ["missing_figure_of", "items", "magnet_figures_by_id", "setup_magnets_by_id", "activities_of", "audience_has_children",
+__all__ = ["missing_figure_of", "figures_by_value", "items", "magnet_figures_by_id", "setup_magnets_by_id", "activities_of", "audience_has_children",
            "public_present", "implant_wearers_screened", "reaches", "largest_distance_per_magnet",
            "zone_max_field"]
 
@@ -47,6 +48,39 @@ def missing_figure_of(concern: str, what: str, part: str, checklist: str, severi
     """
     finding = missing_figure(concern, what.format(part=f"`{part}`"), checklist, severity=severity)
     return dataclasses.replace(finding, id=f"{concern}.{part}.missing")
+
+
+def figures_by_value(label: str, values) -> list[tuple[str, str]]:
+    """A finding's per-part figures, parts with the same printed value named in one figure.
+
+    Parameters
+    ----------
+    label : str
+        The figure's label with ``{parts}`` where the ids go: ``implant_keep_out (0.5 mT) from {parts}``.
+    values : iterable of (str, str)
+        (part id, printed value) in the order to report them.
+
+    Returns
+    -------
+    list of (str, str)
+        One (label, value) per distinct value, in the order each value first occurs; several
+        parts are written ``each of magnet-01 to magnet-12`` (ranges only for consecutive
+        numbers, :func:`hazards.grouping.name_parts`). Every value is kept.
+
+    Examples
+    --------
+    >>> figures_by_value("line from {parts}", [("m-1", "87 mm"), ("m-2", "86.9 mm"), ("m-3", "87 mm")])
+    [('line from each of m-1 and m-3', '87 mm'), ('line from m-2', '86.9 mm')]
+    """
+    groups: dict[str, list[str]] = {}
+    for part, value in values:
+        groups.setdefault(value, []).append(part)
+    figures = []
+    for value, parts in groups.items():
+        parts = sorted(dict.fromkeys(parts), key=natural_key)
+        named = ("each of " if len(parts) > 1 else "") + name_parts(parts, code=False)
+        figures.append((label.format(parts=named), value))
+    return figures
 
 
 def items(container, name: str) -> list:

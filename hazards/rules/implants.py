@@ -7,8 +7,9 @@ from __future__ import annotations
 
 from hazards.findings import ACTION, BLOCKING, NOTE, Finding, is_number, missing_figure, show, show_field, \
     source_entry, threshold_map, threshold_text
-from hazards.rules.common import (implant_wearers_screened, items, largest_distance_per_magnet, public_present,
-                                  reaches)
+from hazards.grouping import name_parts
+from hazards.rules.common import (figures_by_value, implant_wearers_screened, items, largest_distance_per_magnet,
+                                  public_present, reaches)
 
 CONCERN = "implants"
 
@@ -35,8 +36,8 @@ def implants(setup, assessment, thresholds) -> list:
 
 
 def _keep_out_line(line, distances, table, screened) -> Finding:
-    figures = [(f"{line.id} ({show_field(line.value)}) from {magnet}", show(distance, "length"))
-               for magnet, distance in distances.items()]
+    figures = figures_by_value(f"{line.id} ({show_field(line.value)}) from {{parts}}",
+                               [(magnet, show(distance, "length")) for magnet, distance in distances.items()])
     numbers = [d for d in distances.values() if is_number(d)]
     largest = show(max(numbers), "length") if numbers else "not available"
     checklist = [f"Mark the implant keep-out line {largest} from the nearest magnet, with a sign at every way in "
@@ -93,8 +94,9 @@ def _exposure(setup, assessment, table) -> list:
     if strong and public_present(setup):
         findings.append(Finding(
             id="implants.public-handling", severity=ACTION, concern=CONCERN,
-            title=f"Fields at the faces of {', '.join(m.id for m in strong)} reach the public limit",
-            figures=[(f"field at the pole face of {m.id}", show_field(m.pole_face_field_T)) for m in strong]
+            title=f"Fields at the faces of {name_parts([m.id for m in strong], code=False)} reach the public limit",
+            figures=figures_by_value("field at the pole face of {parts}",
+                                     [(m.id, show_field(m.pole_face_field_T)) for m in strong])
             + [("public limit, any part of the body", threshold_text(public))],
             why="A member of the public holding one of these magnets has a hand in a field above the public limit.",
             checklist=["Let members of the public handle these magnets only in holders, or not at all."],
@@ -116,7 +118,8 @@ def _exposure(setup, assessment, table) -> list:
         findings.append(Finding(
             id="implants.implausible-field", severity=NOTE, concern=CONCERN,
             title="A computed surface field is at or above the occupational limit for head and trunk",
-            figures=[(f"field at the pole face of {m.id}", show_field(m.pole_face_field_T)) for m in impossible],
+            figures=figures_by_value("field at the pole face of {parts}",
+                                     [(m.id, show_field(m.pole_face_field_T)) for m in impossible]),
             why=("No permanent magnet gives a field this high at its face (remanence tops out near 1.5 T): "
                  "check the magnet's grade or remanence in the setup."),
             sources=[source_entry(worker)]))

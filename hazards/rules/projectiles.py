@@ -3,7 +3,7 @@ from __future__ import annotations
 
 from hazards.findings import ACTION, BLOCKING, NOTE, Finding, is_number, missing_figure, show, show_field, \
     source_entry, threshold_map, threshold_text
-from hazards.rules.common import items, largest_distance_per_magnet
+from hazards.rules.common import figures_by_value, items, largest_distance_per_magnet
 
 CONCERN = "projectiles"
 
@@ -54,8 +54,8 @@ def _line(assessment, table) -> list:
     if not strong:
         return []
     distances = largest_distance_per_magnet(assessment, line.id)
-    figures = [(f"{line.id} ({show_field(line.value)}) from {m.id}", show(distances.get(m.id), "length"))
-               for m in strong]
+    figures = figures_by_value(f"{line.id} ({show_field(line.value)}) from {{parts}}",
+                               [(m.id, show(distances.get(m.id), "length")) for m in strong])
     numbers = [distances[m.id] for m in strong if is_number(distances.get(m.id))]
     largest = show(max(numbers), "length") if numbers else "a distance to be measured"
     return [Finding(

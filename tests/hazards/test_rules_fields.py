@@ -175,3 +175,28 @@ def test_computers_and_storage_media_in_one_zone_give_one_finding():
     found = [f for f in objects(setup, a, list(T.values())) if f.id.startswith("objects.desk.")]
     assert [f.id for f in found] == ["objects.desk.storage_media"]
     assert "computers, storage media" in found[0].title
+
+
+def test_magnets_at_the_same_printed_distance_share_one_figure():
+    # Six magnets: two at 86.9 mm, three at 87 mm, one at 90 mm (as printed). Every magnet is named
+    # once, beside its own distance.
+    distances = {"magnet-01": 0.0869, "magnet-02": 0.087, "magnet-03": 0.087, "magnet-04": 0.087,
+                 "magnet-05": 0.0869, "magnet-06": 0.09}
+    a = assessment(magnets=[magnet(id=m) for m in distances],
+                   keep_out=[keep_out("implant_keep_out", d, magnet_id=m) for m, d in distances.items()])
+    figures = ids(implants(setup_from(), a, list(T.values())))["implants.keep-out-line"].figures
+    # Written out by hand: one figure per distinct distance, in the order each first occurs, a run of
+    # three consecutive numbers as a range (hazards.grouping.name_parts).
+    assert figures == [("implant_keep_out (0.5 mT) from each of magnet-01 and magnet-05", "86.9 mm"),
+                       ("implant_keep_out (0.5 mT) from each of magnet-02 to magnet-04", "87 mm"),
+                       ("implant_keep_out (0.5 mT) from magnet-06", "90 mm")]
+
+
+def test_projectile_line_figures_name_equal_magnets_together():
+    strong = T["projectile_source_field"].value * 2
+    a = assessment(magnets=[magnet(id=f"m-{n}", pole_face_field_T=strong) for n in (1, 2, 3)],
+                   keep_out=[keep_out("projectile_line", 0.0516, magnet_id=f"m-{n}") for n in (1, 2, 3)])
+    figures = ids(projectiles(setup_from(), a, list(T.values())))["projectiles.line"].figures
+    # three magnets at the same 51.6 mm: one figure, then the threshold figures as before
+    assert figures[0] == ("projectile_line (3 mT) from each of m-1 to m-3", "51.6 mm")
+    assert [label for label, _ in figures[1:]] == ["projectile line", "applies to sources above"]

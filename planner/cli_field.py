@@ -21,16 +21,19 @@ def _point(text: str) -> np.ndarray:
         raise UserInputError(f"point `{text}`: {error}") from None
 
 
-def _plane(text: str) -> tuple[int, float]:
+def _plane(text: str, option: str = "--grid") -> tuple[int, float]:
     """`z=10 mm` -> (2, 0.01)."""
     axis, _, value = text.partition("=")
     axis = axis.strip().lower()
     if axis not in ("x", "y", "z") or not value:
-        raise UserInputError(f"--grid must name a plane such as `z=0 mm` or `y=0 mm`; got `{text}`")
+        raise UserInputError(f"{option} must name a plane such as `z=0 mm` or `y=0 mm`; got `{text}`")
     try:
         return "xyz".index(axis), to_si(value.strip(), "length")
     except UnitError as error:
-        raise UserInputError(f"--grid `{text}`: {error}") from None
+        raise UserInputError(f"{option} `{text}`: {error}") from None
+
+
+_MAP_PLANE_AXIS = {"plan": 2, "elevation": 1}  # a plan is a plane z = const, an elevation y = const
 
 
 def _csv(points: np.ndarray, values: np.ndarray) -> str:
@@ -57,20 +60,32 @@ def _format_tesla(value: float) -> str:
 @click.option("--samples", default=101, show_default=True, type=click.IntRange(2, 2001),
               help="Points along --along, or per side of --grid.")
 @click.option("--map", "map_view", type=click.Choice(["plan", "elevation"]), help="Draw a to-scale keep-out map.")
+@click.option("--plane", metavar="PLANE",
+              help='Plane of --map: "z=450 mm" for a plan at that height (e.g. seated head height above the '
+                   'bench top), "y=0 mm" for an elevation; default: through the strongest magnet.')
 @click.option("--out", type=click.Path(dir_okay=False, path_type=Path), help="CSV file (or .svg/.pdf for --map).")
 @guarded
-def field(setup_file, at, along, grid, span, samples, map_view, out):
+def field(setup_file, at, along, grid, span, samples, map_view, plane, out):
     """Flux density of SETUP's magnets at points, along a line or over a plane."""
     chosen = sum(bool(x) for x in (at, along, grid, map_view))
     if chosen != 1:
         raise UserInputError("give exactly one of --at, --along, --grid or --map")
+    if plane and not map_view:
+        raise UserInputError("--plane chooses the plane of --map; for a grid of values use --grid")
+    offset = None
+    if plane:
+        axis, offset = _plane(plane, "--plane")
+        if axis != _MAP_PLANE_AXIS[map_view]:
+            wanted = "xyz"[_MAP_PLANE_AXIS[map_view]]
+            raise UserInputError(f"--plane `{plane}`: a {map_view} map lies in a plane {wanted}=..., "
+                                 f"such as `{wanted}=0 mm`")
     setup = load_setup(setup_file)
     if map_view:
         from planner.cli_maps import write_map
 
         if out is None:
             raise UserInputError("--map needs --out FILE.svg or FILE.pdf")
-        click.echo(write_map(setup, map_view, out))
+        click.echo(write_map(setup, map_view, out, offset))
         return
     from planner.queries import field as field_at
 

@@ -83,15 +83,20 @@ def map_planes(setup: Setup) -> tuple[float, float]:
     return float(strongest.center[2]), float(strongest.center[1])
 
 
-def contours(setup: Setup, thresholds: list[Threshold]) -> list[Contour]:
-    """Plan and elevation contour lines of the total |B| for the map thresholds."""
+def contours(setup: Setup, thresholds: list[Threshold], planes: dict[str, float] | None = None) -> list[Contour]:
+    """Plan and elevation contour lines of the total |B| for the map thresholds.
+
+    ``planes`` may give the plane of either view [m]: {"plan": z, "elevation": y}; only the
+    views named are drawn then. Default: both, through the strongest magnet's centre.
+    """
     bodies = bodies_of(setup)
     rows = [t for t in field_thresholds(thresholds) if t.id in MAP_THRESHOLDS]
     if not bodies or not rows:
         return []
     height, across = map_planes(setup)
+    chosen = planes or {"plan": height, "elevation": across}
     result = []
-    for view, offset in (("plan", height), ("elevation", across)):
+    for view, offset in chosen.items():
         lines = field_contours(bodies, [t.value for t in rows], view=view, offset=offset,
                                resolution=MAP_RESOLUTION)
         for threshold in rows:

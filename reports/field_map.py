@@ -22,9 +22,11 @@ KIND_STYLE = {  # fill, stroke, width, dash
     "magnet": (colors.Color(0.80, 0.80, 0.80), colors.black, 1.4, None),
     "steel": (colors.Color(0.93, 0.93, 0.93), colors.Color(0.25, 0.25, 0.25), 1.0, (6, 2, 1, 2)),
     "coil": (None, colors.Color(0.45, 0.25, 0.05), 1.0, (1, 2)),
+    "conductor": (colors.Color(0.98, 0.93, 0.88), colors.Color(0.65, 0.35, 0.10), 1.0, None),
     "zone": (colors.Color(0.93, 0.96, 1.0), colors.Color(0.15, 0.25, 0.55), 0.8, (4, 3)),
 }
-KIND_WORDS = {"magnet": "magnet", "steel": "steel part", "coil": "coil", "zone": "people / equipment zone"}
+KIND_WORDS = {"magnet": "magnet", "steel": "steel part", "coil": "coil", "conductor": "tube or sheet (conductor)",
+              "zone": "people / equipment zone"}
 LINE_STYLES = [  # stroke colour, dash pattern, width
     (colors.Color(0.70, 0.10, 0.10), None, 1.6),
     (colors.Color(0.05, 0.35, 0.55), (7, 3), 1.4),
@@ -40,7 +42,7 @@ VIEW_AXES = {"plan": ("x, along the bench", "y, across"), "elevation": ("x, alon
 class Shape:
     """One outline in plane coordinates [m].
 
-    kind: "magnet", "steel", "coil" or "zone". form: "circle" (centre, radius),
+    kind: "magnet", "steel", "coil", "conductor" or "zone". form: "circle" (centre, radius),
     "rectangle" (corner_low, corner_high) or "polygon" (points (n, 2)).
     """
 

@@ -57,6 +57,78 @@ def _magnet_shape(magnet, view: str):
     return _round_part("magnet", magnet.id, centre, magnet.diameter / 2, magnet.height, axis, view)
 
 
+def _box(kind: str, label: str, low, high, view: str):
+    """Rectangle of the 3-D box [low, high] seen in ``view``."""
+    first, second = _PLANE[view]
+    return Shape(kind=kind, form="rectangle", label=label, corner_low=(low[first], low[second]),
+                 corner_high=(high[first], high[second]))
+
+
+def _steel_surface_shape(surface, view: str, span):
+    """(shape, note) of a steel face: its [length, width] around ``at`` and its thickness behind.
+
+    A face given without a size is large. Seen edge-on it is drawn across ``span`` (the
+    extent of the rest of the map, 3-D corners (low, high)); lying in the drawing plane it
+    would cover the whole map and hide the zones, so it gets a note instead of a shape.
+    """
+    along = _axis_index(surface.normal)
+    at = list(surface.at)
+    first, second = _PLANE[view]
+    if along is None:  # a tilted face: the circle around its given size, or a note for a large one
+        if surface.size is None:
+            return None, f"{surface.id}: a large tilted steel face through the map (not drawn)"
+        return Shape(kind="steel", form="circle", label=surface.id, centre=(at[first], at[second]),
+                     radius=math.hypot(*surface.size) / 2), None
+    if surface.size is None and along not in (first, second):
+        axis = "xyz"[along]
+        return None, (f"{surface.id}: a large steel face parallel to this view at {axis} = "
+                      f"{quantity(at[along], 'm')}, under or over the whole map (not drawn)").replace("µ", "u")
+    low, high = list(span[0]), list(span[1])
+    in_face = [i for i in range(3) if i != along]
+    if surface.size is not None:
+        for index, extent in zip(in_face, surface.size):
+            low[index], high[index] = at[index] - extent / 2, at[index] + extent / 2
+    behind = -math.copysign(surface.thickness, surface.normal[along])
+    low[along], high[along] = min(at[along], at[along] + behind), max(at[along], at[along] + behind)
+    return _box("steel", surface.id, low, high, view), None
+
+
+def _loose_steel_shape(item, view: str):
+    """A loose item as the circle that encloses it (its orientation on the bench is not given)."""
+    first, second = _PLANE[view]
+    if item.shape == "sphere":
+        radius = item.diameter / 2
+    elif item.shape == "rod":
+        radius = math.hypot(item.length, item.diameter) / 2
+    else:
+        radius = math.hypot(item.length, item.width, item.thickness) / 2
+    return Shape(kind="steel", form="circle", label=item.id, centre=(item.at[first], item.at[second]), radius=radius)
+
+
+def _conductor_shape(part, view: str):
+    if part.kind == "tube":
+        return _round_part("conductor", part.id, part.at, part.outer_diameter / 2, part.length, part.axis, view)
+    half = (part.size[0] / 2, part.size[1] / 2, part.thickness / 2)  # a sheet lies flat: size along x and y
+    return _box("conductor", part.id, [c - h for c, h in zip(part.at, half)], [c + h for c, h in zip(part.at, half)],
+                view)
+
+
+def _span(setup, contours, view):
+    """3-D corners (low, high) around the magnets, zones and the view's lines, for large steel faces."""
+    points = [list(m.at) for m in setup.magnets]
+    points += [list(corner) for zone in setup.zones for corner in (zone.corner_from, zone.corner_to)]
+    first, second = _PLANE[view]
+    for contour in contours:
+        for line in contour.lines:
+            for u, v in line:
+                point = list(setup.magnets[0].at) if setup.magnets else [0.0, 0.0, 0.0]
+                point[first], point[second] = u, v
+                points.append(point)
+    low = [min(p[i] for p in points) for i in range(3)]
+    high = [max(p[i] for p in points) for i in range(3)]
+    return low, high
+
+
 def _clip_rectangle(shape, low, high):
     """The rectangle cut to the box [low, high], or None if it lies outside it."""
     x0, y0 = max(shape.corner_low[0], low[0]), max(shape.corner_low[1], low[1])
@@ -87,7 +159,7 @@ def _close_up(scene, contours):
             clipped = _clip_rectangle(shape, low, high)
             kept += [clipped] if clipped is not None else []
     return type(scene)(view=scene.view, title=scene.title.replace(",", ", close-up,", 1), shapes=tuple(kept),
-                       lines=scene.lines)
+                       lines=scene.lines, notes=scene.notes)
 
 
 def scenes_from_setup(setup, assessment) -> dict:
@@ -108,6 +180,12 @@ def scenes_from_setup(setup, assessment) -> dict:
         for coil in setup.coils:
             outer = coil.outer_diameter or coil.inner_diameter
             shapes.append(_round_part("coil", coil.id, coil.at, outer / 2, coil.length, coil.axis, view))
+        span = _span(setup, contours, view)
+        steel = [_steel_surface_shape(surface, view, span) for surface in getattr(setup, "steel_surfaces", [])]
+        shapes += [shape for shape, _ in steel if shape is not None]
+        notes = tuple(note for _, note in steel if note is not None)
+        shapes += [_conductor_shape(part, view) for part in getattr(setup, "conductors", [])]
+        shapes += [_loose_steel_shape(item, view) for item in getattr(setup, "loose_steel", [])]
         shapes += [_magnet_shape(magnet, view) for magnet in setup.magnets]
         lines = []
         for contour in contours:
@@ -120,7 +198,8 @@ def scenes_from_setup(setup, assessment) -> dict:
         offset = contours[0].plane_offset_m
         where = f"height z = {quantity(offset, 'm')}" if view == "plan" else f"plane y = {quantity(offset, 'm')}"
         title = ("Plan, seen from above" if view == "plan" else "Elevation, seen from the front") + f", {where}"
-        whole = MapScene(view=view, title=title.replace("µ", "u"), shapes=tuple(shapes), lines=tuple(lines))
+        whole = MapScene(view=view, title=title.replace("µ", "u"), shapes=tuple(shapes), lines=tuple(lines),
+                         notes=notes)
         close = _close_up(whole, contours)
         scenes[view] = [whole] + ([close] if close is not None else [])
     return scenes

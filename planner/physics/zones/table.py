@@ -2,14 +2,15 @@
 
 The distances of different magnets are independent computations
 (:func:`planner.physics.zones.keep_out_radii` per magnet), so they run in separate worker
-processes when the machine has more than one core and the platform can fork (the workers
-inherit the loaded program instead of importing it again). The numbers are the same as
+processes when the machine has more than one core and runs Linux, where forking is safe (the
+workers inherit the loaded program instead of importing it again); elsewhere one by one. The numbers are the same as
 computed one by one: each worker runs the same pure function on the same input.
 """
 from __future__ import annotations
 
 import multiprocessing
 import os
+import sys
 from concurrent.futures import ProcessPoolExecutor
 
 import numpy as np
@@ -22,7 +23,8 @@ __all__ = ["KeepOutJob", "keep_out_table", "available_workers"]
 
 def available_workers() -> int:
     """Cores this process may use (1 where worker processes cannot be forked)."""
-    if "fork" not in multiprocessing.get_all_start_methods():
+    # Forking is safe on Linux; on macOS system libraries may not survive it, and Windows has none.
+    if not sys.platform.startswith("linux") or "fork" not in multiprocessing.get_all_start_methods():
         return 1
     try:
         return max(len(os.sched_getaffinity(0)), 1)

@@ -25,9 +25,20 @@ consecutive numbers is written as a range, ``drop-01`` to ``drop-12``.
 
 * A title that begins with the part (its subject) becomes ``Each of `drop-01` to `drop-12` drives
   the meter past full scale (17.9 x)``; any other title lists the parts where the one part stood.
-* A checklist item, reason or caution keeps the wording it had for the first part, then adds
-  ``; the same for `drop-02` to `drop-12```: its counts and pronouns (``(1 piece)``, ``keep it
-  apart``) stay true for each part. An item that begins with the part becomes ``Each of ...``.
+* A checklist item, reason or caution names the parts in the first of these ways that fits
+  (:func:`_several`), each of which keeps its counts and pronouns (``(1 piece)``, ``keep it
+  apart``) true for each part on its own:
+
+  - the part opens it as its subject: ``Each of `drop-01` to `drop-12` drives ...``;
+  - the part is named once, after a preposition: the list stands in its place after ``each
+    of``: ``The electrical check needs the electrical figures of each of `drop-01` to
+    `drop-12`; without it ...``;
+  - every mention can be said with a pronoun: the list goes up front and the text follows with
+    ``it`` for the part, ``its circuit`` for ``the circuit of `drop-01```, ``its magnets`` for
+    ``the `magnet-01` magnets``: ``For each of `magnet-01` to `magnet-12`: count its magnets out
+    at the start and back in at the end (1 piece).``;
+  - otherwise the wording for the first part is kept, then ``; the same for `drop-02` to
+    `drop-12```.
 * The first figure, ``applies to each of these 12``, lists every part in full, so each id can be
   found by searching the text; the other figures are those of each part.
 * The id is the first member's id with its part written ``drop-01+11`` (the first part and how many
@@ -262,14 +273,12 @@ def _merge(members, varying: int) -> Finding:
         marks = [m for m in _MARK.finditer(template) if int(m.group(2)) == varying]
         if not marks:
             return _render(template, values)
-        first = marks[0]
-        if len(marks) == 1 and first.start() == 0 and template[first.end():first.end() + 1] == " ":
-            return "Each of " + _render(template, values, varying, names)   # the part is the subject
         if title:
+            first = marks[0]
+            if len(marks) == 1 and first.start() == 0 and template[first.end():first.end() + 1] == " ":
+                return "Each of " + _render(template, values, varying, names)   # the part is the subject
             return _render(template, values, varying, names)
-        own = _render(template, values)
-        clause = "the same for " + name_parts(others, code=first.group(1) == "B")
-        return own[:-1] + "; " + clause + "." if own.endswith(".") else own + "; " + clause
+        return _several(template, marks, values, varying, names)
 
     id_template = _template(base.id, values)
     if any(int(m.group(2)) == varying for m in _MARK.finditer(id_template)):
@@ -285,6 +294,67 @@ def _merge(members, varying: int) -> Finding:
         sources=[(_render(tid, values, varying, names), _render(text, values, varying, names))
                  for tid, text in sources],
         parts=names)
+
+
+# Words after which a part is the object of a preposition, so "each of" can stand before it.
+_PREPOSITION = re.compile(r"(?:^|\s)(?:of|from|to|in|into|for|at|on|near|with|by|around|inside|outside|"
+                          r"beside|over|under|through) $")
+# Plural nouns a part's id can qualify ("the `magnet-01` magnets"); "its" stands for the id.
+_QUALIFIED = re.compile(r" (?:magnets|pieces)\b")
+# Words that make "the X ... of" a phrasal verb's object rather than a noun phrase.
+_PARTICLES = {"out", "up", "off", "away", "back", "down", "clear", "free", "part", "most", "rest"}
+
+
+def _several(template: str, marks, values, varying: int, names) -> str:
+    """A reason, caution or checklist item of a merged finding, worded for every part.
+
+    The four ways of the module docstring, tried in order: the part as subject (``Each of``),
+    named once after a preposition (``each of`` in its place; not when ``and``/``or`` follows,
+    which would join the list), said by pronouns (``For each of ...:`` up front), or the first
+    part's wording and ``; the same for ...``.
+    """
+    backticked = marks[0].group(1) == "B"
+    listed = name_parts(names, code=backticked)
+    first = marks[0]
+    joined = re.match(r" (?:and|or) ", template[first.end():]) is not None
+    if len(marks) == 1 and first.start() == 0 and template[first.end():first.end() + 1] == " " and not joined:
+        return "Each of " + _render(template, values, varying, names)
+    if len(marks) == 1 and _PREPOSITION.search(template[:first.start()]) and not joined:
+        return _render(template[:first.start()] + "each of " + template[first.start():], values, varying, names)
+    body = _with_pronouns(template, marks)
+    if body is not None:
+        text = _render(body, values)
+        if len(text) > 1 and text[1].islower():     # not an acronym or a backticked id
+            text = text[0].lower() + text[1:]
+        return f"For each of {listed}: {text}"
+    own = _render(template, values)
+    clause = "the same for " + name_parts(names[1:], code=backticked)
+    return own[:-1] + "; " + clause + "." if own.endswith(".") else own + "; " + clause
+
+
+def _with_pronouns(template: str, marks) -> str | None:
+    """The template with each mention of the varying part said by a pronoun; None if one cannot be."""
+    pieces, end = [], 0
+    for mark in marks:
+        before, after = template[end:mark.start()], template[mark.end():]
+        sentence_start = not template[:mark.start()].strip() or re.search(r"[.!?] $", template[:mark.start()])
+        possessive = re.search(r"(?:^|(?<=\s))([Tt])he ((?:[a-z]+ )?[a-z]+) of $", before)
+        if possessive and set(possessive.group(2).split()) & _PARTICLES:    # "the cards out of"
+            possessive = None
+        article = re.search(r"(?:^|(?<=\s))([Tt])he $", before)
+        if after.startswith("'s") or after.startswith("\u2019s"):
+            return None
+        if article and _QUALIFIED.match(after):              # the `a` magnets -> its magnets
+            pieces.append(before[:article.start()] + ("Its" if article.group(1) == "T" else "its"))
+        elif possessive:                                     # the circuit of `a` -> its circuit
+            pieces.append(before[:possessive.start()] + ("Its " if possessive.group(1) == "T" else "its ")
+                          + possessive.group(2))
+        elif re.search(r"(?:^|\s)(?:a|an|the|A|An|The|of|every|each|any) $", before):
+            return None
+        else:
+            pieces.append(before + ("It" if sentence_start else "it"))
+        end = mark.end()
+    return "".join(pieces) + template[end:]
 
 
 def _render(template: str, values, varying: int | None = None, names=(), code: bool = True) -> str:

@@ -68,9 +68,10 @@ def test_a_merged_findings_checklist_names_every_part():
     assert len(named) == 1                  # one tick box for the item that named the part
     for part in ("stand-a", "stand-b", "stand-c"):
         assert f"`{part}`" in named[0]
-    # The first part's wording is kept (its pronoun "it" stays true for each), then the others.
-    assert named[0] == ("Put a series resistor in the circuit of `stand-a` and keep it there; "
-                        "the same for `stand-b` and `stand-c`.")
+    # The parts go up front and the item follows for each, "the circuit of `stand-a`" said as
+    # "its circuit": one resistor per circuit, the pronoun "it" (the resistor) stays true.
+    assert named[0] == ("For each of `stand-a`, `stand-b` and `stand-c`: put a series resistor in its circuit "
+                        "and keep it there.")
     # An item that named no part is unchanged.
     assert "Try it once privately before showing it." in finding.checklist
 
@@ -81,8 +82,9 @@ def test_pairs_with_one_part_in_common_merge_on_the_other():
     title, = [found[0].title]
     # Runs of three or more consecutive numbers are written as a range (magnet-01 .. magnet-04).
     assert title == "Handling `magnet-01` to `magnet-04` and `bench-frame`: they snap together from 30.7 mm"
-    assert found[0].checklist == ["Keep `magnet-01` and `bench-frame` at least 30.7 mm apart except when joining "
-                                  "them on purpose; the same for `magnet-02` to `magnet-04`."]
+    # Each magnet is kept apart from the frame on its own: "it", not "them", stands for the magnet.
+    assert found[0].checklist == ["For each of `magnet-01` to `magnet-04`: keep it and `bench-frame` at least "
+                                  "30.7 mm apart except when joining them on purpose."]
     assert found[0].figures[0][1] == "`magnet-01`, `magnet-02`, `magnet-03` and `magnet-04`"   # every id in full
 
 
@@ -163,6 +165,71 @@ def test_inputs_are_not_changed():
     assert inputs == copies
 
 
+# --- how reasons, cautions and checklist items read for several parts ----------------------------
+
+def worded(part: str, why: str = "", cautions=(), checklist=()) -> Finding:
+    """A finding about one part whose texts write ``{p}`` where the part goes (backticked)."""
+    quoted = f"`{part}`"
+    return Finding(id=f"demo.{part}", severity=ACTION, concern="demo", title=f"About {quoted}",
+                   why=why.format(p=quoted), cautions=[c.format(p=quoted) for c in cautions],
+                   checklist=[c.format(p=quoted) for c in checklist])
+
+
+def test_a_reason_naming_the_part_once_lists_the_parts_in_its_place():
+    from hazards.rules.common import missing_figure_of
+
+    gaps = [missing_figure_of("electrical", "the electrical figures of {part}", f"drop-{n}", "Measure it.")
+            for n in (1, 2, 3)]
+    merged, = group_findings(gaps)
+    # Written by hand from the module docstring: the part follows "of", once, so "each of" and the
+    # list take its place; the rest of the sentence is unchanged and said once.
+    assert merged.why == ("The electrical check needs the electrical figures of each of `drop-1` to `drop-3`; "
+                          "without it benchplan cannot say whether a threshold is passed.")
+    assert "the same for" not in merged.why
+    # With one part the finding is the rule's own, word for word.
+    alone, = group_findings(gaps[:1])
+    assert alone == gaps[0]
+
+
+def test_items_said_with_a_pronoun_put_the_parts_up_front():
+    texts = dict(
+        why="{p} drives the meter past full scale.",
+        cautions=["Move the cards out of {p}, or move the magnets."],
+        checklist=["Count the {p} magnets out at the start and back in at the end (1 piece).",
+                   "Mark {p} as heat-treated and keep it apart from the calibrated magnets.",
+                   "Move {p} or the magnets so the zone lies outside the line."])
+    merged, = group_findings([worded(f"m-{n}", **texts) for n in (1, 2, 3, 4)])
+    # Expected wording written by hand from the module docstring's four ways, in order.
+    assert merged.why == "Each of `m-1` to `m-4` drives the meter past full scale."            # subject
+    assert merged.cautions == ["Move the cards out of each of `m-1` to `m-4`, or move the magnets."]  # after "of"
+    assert merged.checklist == [
+        # the count stays per part: "(1 piece)" of each magnet entry, not of all four
+        "For each of `m-1` to `m-4`: count its magnets out at the start and back in at the end (1 piece).",
+        "For each of `m-1` to `m-4`: mark it as heat-treated and keep it apart from the calibrated magnets.",
+        # "or the magnets" after the part would join the list, so the list goes up front
+        "For each of `m-1` to `m-4`: move it or the magnets so the zone lies outside the line."]
+    # One part: every text exactly as the rule wrote it.
+    single = worded("m-1", **texts)
+    assert group_findings([single]) == [single]
+
+
+def test_an_item_no_pronoun_can_say_keeps_the_first_wording_then_the_others():
+    # "a `m-1` label": neither "it" nor "its" fits after the article, so the fallback is used.
+    merged, = group_findings([worded(f"m-{n}", checklist=["Tape a {p} label on the box."]) for n in (1, 2, 3)])
+    assert merged.checklist == ["Tape a `m-1` label on the box; the same for `m-2` and `m-3`."]
+    # Two mentions, one after "the rest of": no rewrite either.
+    merged, = group_findings([worded(f"m-{n}", checklist=["Move the cards out of {p} and check the rest of {p}."])
+                              for n in (1, 2)])
+    assert merged.checklist == ["Move the cards out of `m-1` and check the rest of `m-1`; the same for `m-2`."]
+
+
+def test_a_part_that_is_not_the_varying_one_stays_in_place():
+    # Pairs merged on the frame: the magnet is the same in each, the frames vary.
+    found, = group_findings([handling("m-1", f"frame-{n}") for n in (1, 2, 3)])
+    assert found.checklist == ["For each of `frame-1` to `frame-3`: keep `m-1` and it at least 30.7 mm apart "
+                               "except when joining them on purpose."]
+
+
 # --- properties over random lists ----------------------------------------------------------------
 
 _parts = st.sampled_from(["drop-1", "drop-2", "drop-3", "drop-10", "m-a", "frame"])
@@ -230,7 +297,10 @@ def test_teaching_lab_checklist_has_one_tick_box_per_merged_item(teaching_lab):
 
     _, after = teaching_lab
     items = [item for item, _ in checklist_items(ReportInputs(assessment(findings=after), fingerprint="0" * 64))]
-    counting = [item for item in items if item.startswith("Count the `magnet-")]
-    assert len(counting) == 1 and "`magnet-01`" in counting[0] and "`magnet-02` to `magnet-12`" in counting[0]
+    counting = [item for item in items if "count its magnets out" in item]
+    # One tick box for the twelve magnets, each counted on its own: the setup gives 1 piece of each.
+    assert counting == ["For each of `magnet-01` to `magnet-12`: count its magnets out at the start and back in "
+                        "at the end (1 piece)."]
     keeping = [item for item in items if "`bench-1-frame`" in item]
-    assert len(keeping) == 1 and "`magnet-02` to `magnet-06`" in keeping[0]
+    # Six magnets sit over bench 1's frame in the setup file.
+    assert len(keeping) == 1 and keeping[0].startswith("For each of `magnet-01` to `magnet-06`: keep it and")

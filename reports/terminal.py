@@ -14,6 +14,7 @@ from hazards.findings import (DEFERRAL, SEVERITIES, SEVERITY_MEANINGS, deferral_
 from planner.units import MICRO_ASCII, format_quantity
 from reports.collapse import collapse_rows
 from reports.pdf.formatting import key_label
+from reports.pdf.zone_summary import checked_in_every_zone, zone_summaries
 
 __all__ = ["render_terminal"]
 
@@ -140,23 +141,34 @@ def _keep_out(out, assessment):
             if threshold.note:
                 source += f"; {threshold.note}"
             out += _wrap(source, "      ")
-    reach = [r for r in assessment.zone_reach if r.reached or (is_number(r.max_field_T) and r.max_field_T >= r.threshold_T)]
-    if assessment.zone_reach:
-        out.append("")
-        out.append("  Zones (largest field inside each):")
-        seen = {}
-        for r in assessment.zone_reach:
-            seen.setdefault(r.zone_id, r)
-        for zone_id, r in seen.items():
-            deepest = {}
-            for x in reach:
-                if x.zone_id == zone_id:
-                    depth = getattr(x, "depth_m", 0.0)
-                    deepest[x.threshold_id] = max(deepest.get(x.threshold_id, 0.0), depth if is_number(depth) else 0.0)
-            reached = [f"{t} ({show(d, 'length')} in)" if d > 0 else t for t, d in sorted(deepest.items())]
-            people = "people" if r.people else "no people"
-            out += _wrap(f"{zone_id} ({r.zone_kind}, {people}): {show_field(r.max_field_T)}"
-                         + (f"; reaches {', '.join(reached)}" if reached else ""), "    ")
+    _zones(out, assessment)
+
+
+def _zones(out, assessment):
+    """One line per zone: its largest field once, its own limit if any, the thresholds that reach it."""
+    summaries = zone_summaries(getattr(assessment, "zone_reach", []))
+    if not summaries:
+        return
+    shared = {tid for tid, _ in checked_in_every_zone(summaries)}
+    out.append("")
+    out += _wrap(f"Zones (largest field in each, a proven upper bound; which of the {len(shared)} field thresholds "
+                 "reach it):")
+    for z in summaries:
+        own = [f"{_zone_threshold(tid)} {show_field(value)}" for tid, value in z.checked if tid not in shared]
+        described = ", ".join([z.kind, "people" if z.people else "no people"] + own)
+        if not z.bounded:
+            largest = "not bounded: a magnet is in or at the zone"
+        else:
+            largest = show_field(z.largest_field_T) if is_number(z.largest_field_T) else "not known"
+        reached = [f"{_zone_threshold(tid)} {show_field(value)}" + (f" ({show(depth, 'length')} in)" if depth > 0 else "")
+                   for tid, value, depth in z.reached]
+        out += _wrap(f"{z.zone_id} ({described}): {largest}; reaches {', '.join(reached) if reached else 'none'}",
+                     "    ")
+
+
+def _zone_threshold(threshold_id: str) -> str:
+    """A threshold id as printed; a zone's own limit (``desk:instrument_limit``) as ``own instrument_limit``."""
+    return f"own {threshold_id.split(':', 1)[1]}" if ":" in threshold_id else threshold_id
 
 
 def _pairs(out, assessment):

@@ -2,16 +2,21 @@
 
 Every number comes from the Assessment as computed; this module only formats it. Rows (and
 induction blocks) that print the same values for different parts are printed once, naming every
-part (:func:`reports.collapse.collapse_rows`, shared with the terminal summary).
+part (:func:`reports.collapse.collapse_rows`, shared with the terminal summary). Zones get one
+row each, their largest field once and the thresholds that reach them
+(:func:`reports.pdf.zone_summary.zone_summaries`, also shared with the terminal).
 """
 from __future__ import annotations
 
 from reportlab.lib.units import mm
+from reportlab.platypus import KeepTogether
 
+from hazards.grouping import name_parts
 from reports.collapse import collapse_rows
 from reports.pdf.formatting import key_label, number, quantity, value_text
 from reports.pdf.inputs import ReportInputs
 from reports.pdf.styles import Styles
+from reports.pdf.zone_summary import checked_in_every_zone, zone_summaries
 
 _THRESHOLD_UNITS = {"field": "T", "force": "N", "energy": "J", "voltage": "V", "current": "A"}
 
@@ -144,16 +149,50 @@ def keep_out_table(inputs: ReportInputs, s: Styles) -> list:
     return story
 
 
+def _zone_threshold(threshold_id: str, value: float) -> str:
+    """``implant keep out (0.5 mT)``; a zone's own limit: ``its own instrument limit (50 µT, from the setup)``."""
+    if ":" in threshold_id:
+        return f"its own {threshold_id.split(':', 1)[1].replace('_', ' ')} ({quantity(value, 'T')}, from the setup)"
+    return f"{_threshold_name(threshold_id)} ({quantity(value, 'T')})"
+
+
+def _largest_field(summary) -> str:
+    if not summary.bounded:
+        return "not bounded: a magnet is in or at the zone"
+    return quantity(summary.largest_field_T, "T") if summary.largest_field_T == summary.largest_field_T else "not known"
+
+
+def _reaching(summary) -> str:
+    """The thresholds whose regions reach the zone, with how far in where that is known, or ``none``."""
+    return "; ".join(_zone_threshold(tid, value) + (f", at least {quantity(depth, 'm')} in" if depth > 0 else "")
+                     for tid, value, depth in summary.reached) or "none"
+
+
 def zone_table(inputs: ReportInputs, s: Styles) -> list:
-    reach = inputs.assessment.zone_reach
-    if not reach:
+    """One row per zone: its largest field once, and which thresholds' regions reach it."""
+    summaries = zone_summaries(inputs.assessment.zone_reach)
+    if not summaries:
         return []
-    rows = [[z.zone_id, z.zone_kind.replace("_", " "), _threshold_name(z.threshold_id),
-             quantity(z.threshold_T, "T"), quantity(z.max_field_T, "T"), "yes" if z.reached else "no",
-             "yes" if z.people else "no", ", ".join(c.replace("_", " ") for c in z.contains) or "-"] for z in reach]
-    return [s.para("Zones against the thresholds", s.subheading),
-            s.table(["Zone", "Kind", "Threshold", "Field", "Highest field in zone", "Reached", "People",
-                     "Contains"], rows, [26 * mm, 18 * mm, 28 * mm, 16 * mm, 22 * mm, 16 * mm, 14 * mm, 34 * mm])]
+    everywhere = checked_in_every_zone(summaries)
+    shared = {tid for tid, _ in everywhere}
+    own = [f"{z.zone_id} also against " + ", ".join(_zone_threshold(tid, value) for tid, value in z.checked
+                                                    if tid not in shared)
+           for z in summaries if any(tid not in shared for tid, _ in z.checked)]
+    intro = ("Every zone is checked against "
+             + (name_parts([_zone_threshold(tid, value) for tid, value in everywhere], code=False, compact=False)
+                if everywhere else "no threshold shared by all zones")
+             + ("; " + "; ".join(own) if own else "") + ". The largest field is a proven upper bound of the "
+             "field anywhere in the zone. The last column names each threshold whose region reaches the zone "
+             "(with, where known, how far into the zone from its nearest side the field surely reaches it), "
+             "or none.")
+    rows = [[z.zone_id, z.kind.replace("_", " "), "yes" if z.people else "no",
+             ", ".join(c.replace("_", " ") for c in z.contains) or "-", _largest_field(z), _reaching(z)]
+            for z in summaries]
+    # one row per zone keeps the table short: heading, note and table stay on one page
+    return [KeepTogether([s.para("Zones against the thresholds", s.subheading), s.para(intro, s.small),
+                          s.table(["Zone", "Kind", "People", "Contains", "Largest field in the zone",
+                                   "Thresholds reached"], rows,
+                                  [34 * mm, 16 * mm, 14 * mm, 30 * mm, 28 * mm, 52 * mm])])]
 
 
 def projectile_table(inputs: ReportInputs, s: Styles) -> list:

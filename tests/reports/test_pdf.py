@@ -17,6 +17,7 @@ from hazards.findings import Finding
 from planner.assessment import (Assessment, Contour, InductionFigures, KeepOut, MagnetFigures, PairFigures,
                                 ProjectileFigures, ShippingFigures, Threshold, ZoneReach)
 from reports.pdf import ReportInputs, render_pdf
+from reports.pdf.formatting import quantity
 from reports.register import SignOff
 
 FINGERPRINT = "3f" * 32
@@ -246,8 +247,9 @@ def _check_report_of(setup_path, assessed=None):
     used = {k.threshold_id for k in assessment.keep_out} | {z.threshold_id for z in assessment.zone_reach}
     for threshold_id in used:
         threshold = assessment.threshold(threshold_id)
-        if threshold is None:     # a zone's own limit written in the setup (`zone:instrument_limit`)
-            assert ":" in threshold_id and "own instrument limit (from the setup)" in text
+        if threshold is None:     # a zone's own limit written in the setup (`zone:instrument_limit`), with its value
+            value = next(z.threshold_T for z in assessment.zone_reach if z.threshold_id == threshold_id)
+            assert ":" in threshold_id and f"own instrument limit ({quantity(value, 'T')}, from the setup)" in text
             continue
         assert _flat(threshold.source) in text
     return data

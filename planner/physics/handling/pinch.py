@@ -108,7 +108,9 @@ def snap_distance(attraction, resisting_force: float, search_limit: float,
     >>> round(snap_distance(lambda g: 1.0 / (0.01 + g) ** 2 * 1e-4, 0.25, 0.1), 6)
     0.01
     """
-    return largest_exceeding(attraction, resisting_force, search_limit, smallest_gap)
+    # 24 geometric samples over four decades (a step of 1.47): the pull of two magnets or a magnet
+    # and steel falls steadily with the gap, so the last crossing is found, then refined to 1 nm.
+    return largest_exceeding(attraction, resisting_force, search_limit, smallest_gap, samples=24)
 
 
 def clamp_force(attraction, finger_gap: float = DEFAULT_FINGER_GAP) -> float:

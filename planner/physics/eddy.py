@@ -37,8 +37,8 @@ from dataclasses import dataclass
 import numpy as np
 from scipy.constants import g as standard_gravity
 from scipy.constants import mu_0
-from scipy.special import roots_legendre
 
+from planner.physics.gauss import gauss_legendre
 from planner.physics.induction.magnet_flux import AxialMagnet, loop_flux, radial_field
 from planner.physics.roots import bracketed_root
 
@@ -48,7 +48,7 @@ _GRADING = np.array([0.03, 0.1, 0.3, 1.0, 3.0, 10.0, 30.0, 100.0, 300.0, 1000.0]
 
 def _gauss_panels(breaks, nodes=8):
     """Nodes and weights of Gauss-Legendre panels between the sorted, distinct breakpoints."""
-    x, w = roots_legendre(nodes)
+    x, w = gauss_legendre(nodes)
     breaks = np.unique(np.asarray(breaks, dtype=float))
     lo, hi = breaks[:-1, None], breaks[1:, None]
     return ((lo + hi) / 2 + (hi - lo) / 2 * x).ravel(), ((hi - lo) / 2 * w).ravel()

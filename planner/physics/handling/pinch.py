@@ -23,8 +23,8 @@ from dataclasses import dataclass, replace
 
 import numpy as np
 from scipy.constants import g as STANDARD_GRAVITY
-from scipy.special import roots_legendre
 
+from planner.physics.gauss import gauss_legendre
 from planner.physics.bodies import MagnetBody, rotation_about, rotation_from_axis
 from planner.physics.forces import (energy_between, extent_along, force_and_torque,
                                     force_between, place_at_gap,
@@ -167,7 +167,7 @@ def released_energy(attraction, from_gap: float, to_gap: float) -> float:
     return _adaptive_integral(attraction, to_gap, from_gap)
 
 
-_COARSE, _FINE = roots_legendre(5), roots_legendre(10)
+_COARSE, _FINE = gauss_legendre(5), gauss_legendre(10)
 
 
 def _adaptive_integral(function, low, high, rtol=1e-6, max_intervals=200):

@@ -14,7 +14,9 @@ from dataclasses import dataclass
 
 import numpy as np
 from scipy.constants import inch, mu_0
-from scipy.special import ellipe, ellipk, roots_legendre
+from scipy.special import ellipe, ellipk
+
+from planner.physics.gauss import gauss_legendre
 
 from .sheets import coaxial_sheet_mutual_inductance
 
@@ -89,7 +91,7 @@ class Winding:
         """
         if self.layers <= _EXACT_LAYER_LIMIT or self.depth == 0.0:
             return self.layer_radii, np.full(self.layers, self.turns / self.layers)
-        x, w = roots_legendre(_EXACT_LAYER_LIMIT)
+        x, w = gauss_legendre(_EXACT_LAYER_LIMIT)
         return self.mean_radius + self.depth / 2.0 * x, self.turns * w / 2.0
 
 

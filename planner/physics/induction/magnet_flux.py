@@ -19,8 +19,8 @@ from typing import NamedTuple
 
 import numpy as np
 from scipy.constants import mu_0
-from scipy.special import roots_legendre
 
+from planner.physics.gauss import gauss_legendre
 from planner.physics.bodies import rotation_from_axis
 
 from .sheets import sheet_flux, sheet_radial_field
@@ -216,7 +216,7 @@ def flux_from_field(field, center, normal, radius, radial_nodes=16, angular_node
     Abramowitz & Stegun, 25.4.29-30 (1964) (Gauss-Legendre and periodic trapezoid rules).
     """
     first, second, normal = rotation_from_axis(normal).T  # an orthonormal frame with the disc's normal
-    x, w = roots_legendre(radial_nodes)
+    x, w = gauss_legendre(radial_nodes)
     edges = np.unique(np.clip([0.0, radius, *radial_breaks], 0.0, radius))
     lo, hi = edges[:-1, None], edges[1:, None]
     r = ((lo + hi) / 2.0 + (hi - lo) / 2.0 * x).ravel()

@@ -15,7 +15,8 @@ Grover, Inductance Calculations (1946).
 from __future__ import annotations
 
 import numpy as np
-from scipy.special import roots_legendre
+
+from planner.physics.gauss import gauss_legendre
 
 from .coils import Winding, winding_inductance
 from .loops import loop_vector_potential
@@ -87,7 +88,7 @@ def loop_mutual_inductance(radius_1, center_1, normal_1, radius_2, center_2, nor
 def _filaments(winding: Winding, center, axis, axial_nodes):
     """Filament radii, centres (F, 3) and turn weights of a winding by Gauss quadrature."""
     radii, radial_weights = winding.radial_nodes()
-    x, w = roots_legendre(axial_nodes)
+    x, w = gauss_legendre(axial_nodes)
     positions = winding.length / 2.0 * x
     centers = np.asarray(center, dtype=float) + positions[:, None] * _unit(axis)
     weights = np.outer(radial_weights, w / 2.0).ravel()

@@ -22,8 +22,8 @@ from itertools import accumulate
 
 import numpy as np
 from scipy.constants import g as standard_gravity
-from scipy.special import roots_legendre
 
+from planner.physics.gauss import gauss_legendre
 from planner.physics.bodies import rotation_from_axis
 
 from .coils import Winding, winding_inductance
@@ -93,7 +93,7 @@ def flux_linkage(magnet: AxialMagnet, winding: Winding, positions, nodes_per_pan
                            (faces[:, :, None] - grading).reshape(len(z0), -1),
                            np.linspace(-half, half, 9)[None, :].repeat(len(z0), 0)], axis=1)
     breaks = np.sort(np.clip(grid, -half, half), axis=1)
-    x, w = roots_legendre(nodes_per_panel)
+    x, w = gauss_legendre(nodes_per_panel)
     lo, hi = breaks[:, :-1, None], breaks[:, 1:, None]
     z = ((lo + hi) / 2.0 + (hi - lo) / 2.0 * x).reshape(len(z0), -1)
     weights = ((hi - lo) / 2.0 * w).reshape(len(z0), -1)
@@ -305,8 +305,8 @@ def body_flux_linkage(body, centers, winding: Winding, coil_center, coil_axis, a
 
     first, second, axis = rotation_from_axis(coil_axis).T  # an orthonormal frame with the coil's axis
     radii, turns = winding.radial_nodes()
-    x_axial, w_axial = roots_legendre(axial_nodes)
-    x_radial, w_radial = roots_legendre(radial_nodes)
+    x_axial, w_axial = gauss_legendre(axial_nodes)
+    x_radial, w_radial = gauss_legendre(radial_nodes)
     phi = 2.0 * np.pi * np.arange(angular_nodes) / angular_nodes
     ring = np.outer(np.cos(phi), first) + np.outer(np.sin(phi), second)          # (A, 3)
     r = radii[:, None] * (x_radial[None, :] + 1.0) / 2.0                        # (R, Q)

@@ -30,7 +30,9 @@ from __future__ import annotations
 
 import numpy as np
 from scipy.constants import mu_0
-from scipy.special import ellipe, ellipkm1, roots_legendre
+from scipy.special import ellipe, ellipkm1
+
+from planner.physics.gauss import gauss_legendre
 
 from .loops import elliptic_psi_over_k
 
@@ -182,7 +184,7 @@ def sheet_radial_field(sheet_radius, radius, start_offset, end_offset, surface_c
 
 def _panel_nodes(breaks, nodes_per_panel):
     """Gauss-Legendre nodes and weights on the panels between sorted breakpoints."""
-    x, w = roots_legendre(nodes_per_panel)
+    x, w = gauss_legendre(nodes_per_panel)
     breaks = np.unique(breaks)
     lo, hi = breaks[:-1], breaks[1:]
     half = (hi - lo) / 2.0

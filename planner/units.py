@@ -95,7 +95,13 @@ _QUANTITY = re.compile(rf"^\s*(?P<number>{_NUMBER})\s*(?P<unit>.*?)\s*$")
 
 @lru_cache(maxsize=1)
 def _registry() -> pint.UnitRegistry:
-    registry = pint.UnitRegistry(autoconvert_offset_to_baseunit=True)
+    # pint parses its unit definitions on every start (0.2 s); with its cache folder (the
+    # user's cache directory) later starts load them in 0.02 s. Without a usable cache folder
+    # (read-only home and the like) the definitions are parsed as before.
+    try:
+        registry = pint.UnitRegistry(autoconvert_offset_to_baseunit=True, cache_folder=":auto:")
+    except Exception:  # noqa: BLE001 - any failure of the cache only costs time
+        registry = pint.UnitRegistry(autoconvert_offset_to_baseunit=True)
     registry.define("kiloohm = 1000 * ohm = kohm")
     registry.define("megaohm = 1e6 * ohm = Mohm")
     registry.define("milliohm = 1e-3 * ohm = mohm")

@@ -32,52 +32,17 @@ import numpy as np
 from scipy.constants import mu_0
 from scipy.special import ellipe, ellipkm1
 
+from planner.physics.fields.elliptic import complete_elliptic_integrals
 from planner.physics.gauss import gauss_legendre
 
 from .loops import elliptic_psi_over_k
 
 
-def bulirsch_cel(kc, p, a, b, tolerance=1e-9):
-    """Bulirsch's complete elliptic integral ``cel(kc, p, a, b)`` for ``p > 0``, vectorised [-].
-
-    Notes
-    -----
-    ``cel = int_0^(pi/2) (a cos^2 t + b sin^2 t) / ((cos^2 t + p sin^2 t)
-    sqrt(cos^2 t + kc^2 sin^2 t)) dt``, by Bulirsch's quadratically convergent iteration; the
-    stopping test on ``|g - k| <= tolerance g`` leaves an error of order ``tolerance^2``.
-
-    References
-    ----------
-    R. Bulirsch, Numer. Math. 13, 305-315 (1969); as printed in Derby & Olbert,
-    Am. J. Phys. 78, 229 (2010), appendix.
-
-    >>> round(float(bulirsch_cel(np.sqrt(0.5), 1.0, 1.0, 1.0)), 7)   # K(m = 1/2), A & S 17.1
-    1.8540747
-    """
-    kc, p, a, b = np.broadcast_arrays(*(np.asarray(x, dtype=float) for x in (kc, p, a, b)))
-    k = np.abs(kc)
-    root = np.sqrt(p)
-    s = b / root
-    c = a + s / root
-    g = k / root
-    s = 2.0 * (s + a * g)
-    root = g + root
-    g = np.ones_like(k)
-    mean = k + 1.0
-    product = k
-    for _ in range(60):
-        if np.all(np.abs(g - k) <= g * tolerance):
-            break
-        k = 2.0 * np.sqrt(product)
-        product = k * mean
-        previous = c
-        c = c + s / root
-        g = product / root
-        s = 2.0 * (s + previous * g)
-        root = g + root
-        g = mean
-        mean = k + mean
-    return np.pi / 2.0 * (s + c * mean) / (mean * (mean + root))
+def _cel_zero_one(kc, p):
+    """Bulirsch's cel(kc, p, 0, 1) [-], by the fields module's shared iteration."""
+    kc, p = np.broadcast_arrays(np.asarray(kc, dtype=float), np.asarray(p, dtype=float))
+    value = complete_elliptic_integrals(kc.ravel(), [(p.ravel(), [(0.0, 1.0)])])[0][0]
+    return value.reshape(kc.shape)
 
 
 def _k_minus_e_over_m(m, kc2):
@@ -104,10 +69,10 @@ def _sheet_integral(a, rho, u):
         first = _k_minus_e_over_m(m, kc2)
         bore = g2 > 0.0
         if np.all(bore):
-            second = g2 * bulirsch_cel(np.sqrt(kc2), g2, 0.0, 1.0)
+            second = g2 * _cel_zero_one(np.sqrt(kc2), g2)
         else:                                # circle on the sheet's radius: the term vanishes
             second = np.zeros_like(first)
-            second[bore] = g2[bore] * bulirsch_cel(np.sqrt(kc2[bore]), g2[bore], 0.0, 1.0)
+            second[bore] = g2[bore] * _cel_zero_one(np.sqrt(kc2[bore]), g2[bore])
         value = 2.0 * u / np.sqrt(s2) * (first - second)
     good = (u != 0.0) & (rho > 0.0) & (a > 0.0) & (kc2 > 0.0)
     return np.where(good, a * rho * value, 0.0)

@@ -30,10 +30,14 @@ S. Banach, Studia Math. 7, 36-44 (1938) (norm of symmetric multilinear forms).
 """
 from __future__ import annotations
 
+from math import factorial, pi
+
 import numpy as np
 from scipy.constants import mu_0
 
 K = mu_0 / (4 * np.pi)
+# b_n of the curved-face term of the near-field derivative bounds (see derivative_bounds)
+_CURVED = {0: 0.0, 1: 2.0, 2: pi / 2, 3: 4.0 / 3.0}
 
 
 def exact_body_field(body, points):
@@ -214,21 +218,62 @@ def _ball_geometry(bodies, points, table=None, centre_distance=None):
     return centre_distance, solid_distance, table.moments, table.reach, table.shift, table.flat, table.curved
 
 
-def _gradient_from_geometry(geometry, spread):
+def derivative_bounds(geometry, spread, orders, per_body=False):
+    """Bounds on ||D^n B|| [T/m^n] for each n in ``orders`` over balls of radius ``spread`` [m].
+
+    ``spread`` is (n,) or (n, m) (m candidate radii per point); each result has its shape.
+    The orders share the distances and their reciprocals, which are computed once, and
+    the powers are products of them. ``per_body``: the bound of each body (last axis)
+    instead of their sum. The forms and their derivation: the module docstring of
+    :mod:`planner.physics.zones.certify`, which uses them most.
+    """
     centre_distance, solid_distance, moments, reach, shift, flat, curved = geometry
-    distance = centre_distance - spread[:, None]
-    gap = solid_distance - spread[:, None]
+    spread = np.asarray(spread, dtype=float)
+    if spread.ndim == 2:  # per-point columns (n, k) gain the candidate axis
+        centre_distance, solid_distance, moments, reach, shift, flat, curved = (
+            a[:, None, :] if np.ndim(a) == 2 else a
+            for a in (centre_distance, solid_distance, moments, reach, shift, flat, curved))
+    # Far form: distance e - rho with e = max(d - a, D), or d for a sphere (shift 0).
+    reach_out = np.maximum(centre_distance - shift, solid_distance) - spread[..., None]
+    gap = solid_distance - spread[..., None]
+    far_ok = near_ok = gap > 0  # the whole ball outside the body
     with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
-        far = np.where(distance > reach, 6 * K * moments / (distance - shift) ** 4, np.inf)
-        near = np.where(gap > 0, flat / gap + curved / gap**2, np.inf)
-    return np.sum(np.nan_to_num(np.minimum(far, near), nan=np.inf), axis=1)
+        inverse_far = np.where(far_ok, 1.0 / np.where(far_ok, reach_out, 1.0), 0.0)
+        inverse_gap = np.where(near_ok, 1.0 / np.where(near_ok, gap, 1.0), 0.0)
+        powers_far = {3: inverse_far**2 * inverse_far}
+        powers_gap = {1: inverse_gap, 2: inverse_gap * inverse_gap}
+        results = []
+        for order in orders:
+            while order + 3 not in powers_far:
+                top = max(powers_far)
+                powers_far[top + 1] = powers_far[top] * inverse_far
+            while order + 1 not in powers_gap:
+                top = max(powers_gap)
+                powers_gap[top + 1] = powers_gap[top] * inverse_gap
+            far = np.where(far_ok, factorial(order + 2) * K * moments * powers_far[order + 3], np.inf)
+            if order == 0:
+                bound = far
+            else:
+                near = (factorial(order + 1) / (2 * order) * flat * powers_gap[order]
+                        + factorial(order + 1) * _CURVED[order] / 4 * curved * powers_gap[order + 1])
+                bound = np.minimum(far, np.where(near_ok, near, np.inf))
+            total = bound if per_body else np.sum(bound, axis=-1)
+            total[np.isnan(total)] = np.inf  # only from non-finite inputs
+            results.append(total)
+    return results
+
+
+def derivative_bound(geometry, spread, order):
+    """Bound on ||D^order B|| [T/m^order] over balls of radius ``spread`` (n,) [m]."""
+    return derivative_bounds(geometry, spread, (order,))[0]
 
 
 def gradient_bound(bodies, points, spread):
     """Bound on ||grad B|| [T/m] of the total field over balls of radius ``spread`` (n,) [m].
 
-    Infinite where a ball touches a body (no bound is claimed there).
+    :func:`derivative_bound` of order 1 on the points' geometry; infinite where a ball
+    touches a body (no bound is claimed there).
     """
     points = np.asarray(points, dtype=float).reshape(-1, 3)
     spread = np.broadcast_to(np.asarray(spread, dtype=float), (len(points),))
-    return _gradient_from_geometry(_ball_geometry(bodies, points), spread)
+    return derivative_bound(_ball_geometry(bodies, points), spread, 1)

@@ -26,7 +26,7 @@ grad g(y) = 2 Jac(y)^T B(y) uses a central-difference Jacobian of the field mode
 is bounded by (eps^2 / 6) sqrt(3) L3 (Taylor remainder), plus the error of the field values
 (relative 1e-8, divided by the step) and the model's own derivative error.
 
-Derivative bounds of order n for one body (see ``bounds``; (n+2)! from the Legendre
+Derivative bounds of order n for one body (``bounds.derivative_bounds``; (n+2)! from the Legendre
 expansion, the surface-charge forms from integrating 1/r^(n+2) over a plane or a cylinder):
 volume form (n+2)! k m / e^(n+3); surface form (n+1)!/(2n) A / D^n + (n+1)! b_n / 4 C / D^(n+1),
 b_1 = 2, b_2 = pi/2, b_3 = 4/3; the smaller of the two is used. Here D is the distance to the
@@ -44,14 +44,10 @@ Handbook of Mathematical Functions (1964), 25.3.4 (central-difference error).
 """
 from __future__ import annotations
 
-from math import factorial, pi
-
 import numpy as np
 
-from planner.physics.zones.bounds import K, _ball_geometry, body_table, dipole_assignment, exact_body_field
-
-_CURVED = {0: 0.0, 1: 2.0, 2: pi / 2, 3: 4.0 / 3.0}
-
+from planner.physics.zones.bounds import (K, _ball_geometry, body_table, derivative_bound,
+                                          derivative_bounds, dipole_assignment, exact_body_field)
 
 def _split_far(geometry, widest, centre_bounds, ratio=10.0):
     """Split the (point, body) pairs by how far the body is from each ball, widest radius ``widest``.
@@ -88,55 +84,6 @@ def _split_far(geometry, widest, centre_bounds, ratio=10.0):
     near = (gather(centre_distance, np.inf), gather(solid_distance, np.inf), gather(moments, 0.0),
             gather(reach, 0.0), gather(shift, 0.0), gather(flat, 0.0), gather(curved, 0.0))
     return near, at_centre, at_widest, nearest_far
-
-
-def derivative_bounds(geometry, spread, orders, per_body=False):
-    """Bounds on ||D^n B|| [T/m^n] for each n in ``orders`` over balls of radius ``spread`` [m].
-
-    ``spread`` is (n,) or (n, m) (m candidate radii per point); each result has its shape.
-    The orders share the distances and their reciprocals, which are computed once, and
-    the powers are products of them. ``per_body``: the bound of each body (last axis)
-    instead of their sum.
-    """
-    centre_distance, solid_distance, moments, reach, shift, flat, curved = geometry
-    spread = np.asarray(spread, dtype=float)
-    if spread.ndim == 2:  # per-point columns (n, k) gain the candidate axis
-        centre_distance, solid_distance, moments, reach, shift, flat, curved = (
-            a[:, None, :] if np.ndim(a) == 2 else a
-            for a in (centre_distance, solid_distance, moments, reach, shift, flat, curved))
-    # Far form: distance e - rho with e = max(d - a, D), or d for a sphere (shift 0).
-    reach_out = np.maximum(centre_distance - shift, solid_distance) - spread[..., None]
-    gap = solid_distance - spread[..., None]
-    far_ok = near_ok = gap > 0  # the whole ball outside the body
-    with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
-        inverse_far = np.where(far_ok, 1.0 / np.where(far_ok, reach_out, 1.0), 0.0)
-        inverse_gap = np.where(near_ok, 1.0 / np.where(near_ok, gap, 1.0), 0.0)
-        powers_far = {3: inverse_far**2 * inverse_far}
-        powers_gap = {1: inverse_gap, 2: inverse_gap * inverse_gap}
-        results = []
-        for order in orders:
-            while order + 3 not in powers_far:
-                top = max(powers_far)
-                powers_far[top + 1] = powers_far[top] * inverse_far
-            while order + 1 not in powers_gap:
-                top = max(powers_gap)
-                powers_gap[top + 1] = powers_gap[top] * inverse_gap
-            far = np.where(far_ok, factorial(order + 2) * K * moments * powers_far[order + 3], np.inf)
-            if order == 0:
-                bound = far
-            else:
-                near = (factorial(order + 1) / (2 * order) * flat * powers_gap[order]
-                        + factorial(order + 1) * _CURVED[order] / 4 * curved * powers_gap[order + 1])
-                bound = np.minimum(far, np.where(near_ok, near, np.inf))
-            total = bound if per_body else np.sum(bound, axis=-1)
-            total[np.isnan(total)] = np.inf  # only from non-finite inputs
-            results.append(total)
-    return results
-
-
-def derivative_bound(geometry, spread, order):
-    """Bound on ||D^order B|| [T/m^order] over balls of radius ``spread`` (n,) [m]."""
-    return derivative_bounds(geometry, spread, (order,))[0]
 
 
 def _dipole_field_and_jacobian(bodies, points, far, table=None, distance=None):

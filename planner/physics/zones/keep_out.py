@@ -218,6 +218,14 @@ def keep_out_radii(bodies: list[MagnetBody], index: int, thresholds) -> np.ndarr
     return result
 
 
+def _in_own_cell(table, index, points):
+    """Which points (n, 3) are at least as close to centre ``index`` as to any other (its cell)."""
+    distance = table.centre_distances(points)
+    own = distance[:, index].copy()
+    distance[:, index] = np.inf
+    return own <= np.min(distance, axis=1, initial=np.inf)
+
+
 def _surely_reached(bodies, index, axes, distance, threshold, table):
     """Which points at ``distance`` (n, k) [m] along ``axes`` (n, 3) surely have |B| >= threshold.
 
@@ -226,11 +234,7 @@ def _surely_reached(bodies, index, axes, distance, threshold, table):
     """
     centre = bodies[index].center
     points = centre + (distance[..., None] * axes[:, None, :]).reshape(-1, 3)
-    keep = np.ones(len(points), bool)
-    if len(bodies) > 1:
-        others = np.delete(table.centres, index, axis=0)
-        nearest = np.min(np.linalg.norm(points[:, None] - others[None], axis=2), axis=1)
-        keep = distance.ravel() <= nearest
+    keep = _in_own_cell(table, index, points)
     reached = np.zeros(len(points), bool)
     if keep.any():
         value, error = field_with_error(bodies, points[keep], WITNESS_ERROR * threshold, table)
@@ -307,11 +311,7 @@ class _RaySamples:
         self.distance = np.broadcast_to(floor * (max(reach, floor) / floor) ** fractions, (count, samples))
         centre = bodies[index].center
         points = centre + (self.distance[..., None] * self.directions[:, None, :]).reshape(-1, 3)
-        keep = np.ones(len(points), bool)
-        if len(bodies) > 1:
-            others = np.delete(table.centres, index, axis=0)
-            nearest = np.min(np.linalg.norm(points[:, None] - others[None], axis=2), axis=1)
-            keep = self.distance.ravel() <= nearest
+        keep = _in_own_cell(table, index, points)
         lower = np.full(len(points), -np.inf)
         value, error = field_with_error(bodies, points[keep], WITNESS_ERROR * lowest, table)
         lower[keep] = value - error
@@ -363,15 +363,12 @@ def _refine(bodies, index, threshold, start, table, rays):
 def _verify(bodies, index, threshold, radius, directions=600, table=None):
     """Belt and braces: sample just outside ``radius``; grow past any sample at threshold."""
     centre = bodies[index].center
-    others = np.array([b.center for i, b in enumerate(bodies) if i != index]).reshape(-1, 3)
+    table = bounds.body_table(bodies, table)
     unit = fibonacci_directions(directions)
     for _ in range(8):
         shells = radius * np.array([1.0005, 1.01, 1.03])
         points = (centre + shells[:, None, None] * unit[None]).reshape(-1, 3)
-        if len(others):
-            own = np.linalg.norm(points - centre, axis=1)
-            nearest = np.min(np.linalg.norm(points[:, None] - others[None], axis=2), axis=1)
-            points = points[own <= nearest]
+        points = points[_in_own_cell(table, index, points)]
         value, error = field_with_error(bodies, points, WITNESS_ERROR * threshold, table)
         reached = value + error >= threshold
         if not reached.any():

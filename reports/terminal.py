@@ -14,7 +14,7 @@ from hazards.findings import (DEFERRAL, SEVERITIES, SEVERITY_MEANINGS, deferral_
 from planner.units import MICRO_ASCII, format_quantity
 from reports.collapse import collapse_rows
 from reports.pdf.formatting import key_label
-from reports.pdf.zone_summary import checked_in_every_zone, zone_summaries
+from reports.zone_summary import checked_in_every_zone, zone_summaries
 
 __all__ = ["render_terminal"]
 

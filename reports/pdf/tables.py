@@ -4,7 +4,7 @@ Every number comes from the Assessment as computed; this module only formats it.
 induction blocks) that print the same values for different parts are printed once, naming every
 part (:func:`reports.collapse.collapse_rows`, shared with the terminal summary). Zones get one
 row each, their largest field once and the thresholds that reach them
-(:func:`reports.pdf.zone_summary.zone_summaries`, also shared with the terminal).
+(:func:`reports.zone_summary.zone_summaries`, also shared with the terminal).
 """
 from __future__ import annotations
 
@@ -16,7 +16,7 @@ from reports.collapse import collapse_rows
 from reports.pdf.formatting import key_label, number, quantity, value_text
 from reports.pdf.inputs import ReportInputs
 from reports.pdf.styles import Styles
-from reports.pdf.zone_summary import checked_in_every_zone, zone_summaries
+from reports.zone_summary import checked_in_every_zone, zone_summaries
 
 _THRESHOLD_UNITS = {"field": "T", "force": "N", "energy": "J", "voltage": "V", "current": "A"}
 

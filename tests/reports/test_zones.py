@@ -13,7 +13,7 @@ import pytest
 
 from planner.assessment import Threshold, ZoneReach
 from reports.pdf import render_pdf
-from reports.pdf.zone_summary import checked_in_every_zone, zone_summaries
+from reports.zone_summary import checked_in_every_zone, zone_summaries
 from reports.terminal import render_terminal
 from tests.reports.test_pdf import pdf_text, sample_assessment, sample_inputs
 

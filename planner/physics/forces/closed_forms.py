@@ -14,10 +14,12 @@ from __future__ import annotations
 import numpy as np
 from scipy.constants import mu_0
 
+from planner.physics.gauss import gauss_legendre
+
 
 def _graded_gauss_on_angle(levels: int = 48, order: int = 8):
     """Composite Gauss-Legendre nodes on [0, pi], graded geometrically toward 0."""
-    x, w = np.polynomial.legendre.leggauss(order)
+    x, w = gauss_legendre(order)
     edges = np.concatenate([[0.0], np.pi * 2.0 ** -np.arange(levels, -1, -1.0)])
     a, b = edges[:-1, None], edges[1:, None]
     nodes = (a + b) / 2 + (b - a) / 2 * x

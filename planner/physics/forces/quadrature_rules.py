@@ -31,6 +31,8 @@ from functools import lru_cache
 import numpy as np
 from numpy.polynomial import legendre
 
+from planner.physics.gauss import gauss_legendre
+
 
 @lru_cache(maxsize=None)
 def tensor_gauss_rule(order: int, dimension: int) -> tuple[np.ndarray, np.ndarray]:
@@ -64,7 +66,7 @@ def tensor_gauss_rule(order: int, dimension: int) -> tuple[np.ndarray, np.ndarra
     >>> round(float(weights.sum()), 12), nodes.shape
     (1.0, (9, 2))
     """
-    x, w = legendre.leggauss(order)
+    x, w = gauss_legendre(order)
     return _tensor([(x + 1.0) / 2.0] * dimension, [w / 2.0] * dimension)
 
 
@@ -123,7 +125,7 @@ def nested_interval_rule(points: int) -> tuple[np.ndarray, np.ndarray]:
 def _extended_rule(old_nodes):
     """Nodes and weights on [-1, 1] of the optimal extension of a rule by m + 1 nodes."""
     m = len(old_nodes)
-    x, w = legendre.leggauss(2 * m + 2)  # exact for the products of degree <= 3m + 1 below
+    x, w = gauss_legendre(2 * m + 2)  # exact for the products of degree <= 3m + 1 below
     node_polynomial = np.prod(x[:, None] - old_nodes[None, :], axis=1)
     basis = legendre.legvander(x, m + 1)  # P_0 .. P_{m+1} at x
     conditions = np.array([(w * node_polynomial * x**k) @ basis for k in range(m + 1)])

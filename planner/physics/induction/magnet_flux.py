@@ -140,12 +140,7 @@ def loop_flux(magnet: AxialMagnet, loop_radius, axial_offset):
         r = np.sqrt(rho**2 + z**2)
         inside = 2.0 * np.pi * magnet.polarization * rho**2 / 3.0
         return np.where(r < magnet.outer_radius, inside, dipole_loop_flux(magnet.moment, rho, z))
-    surface_current = magnet.polarization / mu_0
-    start, end = -magnet.length / 2.0 - z, magnet.length / 2.0 - z
-    flux = sheet_flux(magnet.outer_radius, rho, start, end, surface_current)
-    if magnet.inner_radius > 0.0:
-        flux = flux - sheet_flux(magnet.inner_radius, rho, start, end, surface_current)
-    return flux
+    return _outer_minus_bore(sheet_flux, magnet, rho, z)
 
 
 def radial_field(magnet: AxialMagnet, radius, axial_offset):
@@ -176,12 +171,22 @@ def radial_field(magnet: AxialMagnet, radius, axial_offset):
         with np.errstate(divide="ignore", invalid="ignore"):
             outside = 3.0 * mu_0 * magnet.moment * rho * z / (4.0 * np.pi * r**5)
         return np.where(r < magnet.outer_radius, 0.0, outside)
+    return _outer_minus_bore(sheet_radial_field, magnet, rho, z)
+
+
+def _outer_minus_bore(sheet_function, magnet: AxialMagnet, rho, z):
+    """A cylinder's or ring's quantity as its outer current sheet minus its bore's (superposition).
+
+    ``sheet_function(sheet_radius, radius, start, end, surface_current)`` is
+    :func:`.sheets.sheet_flux` or :func:`.sheets.sheet_radial_field`; the surface current of
+    a uniformly magnetized body is J / mu0 (Derby & Olbert 2010).
+    """
     surface_current = magnet.polarization / mu_0
     start, end = -magnet.length / 2.0 - z, magnet.length / 2.0 - z
-    field = sheet_radial_field(magnet.outer_radius, rho, start, end, surface_current)
+    value = sheet_function(magnet.outer_radius, rho, start, end, surface_current)
     if magnet.inner_radius > 0.0:
-        field = field - sheet_radial_field(magnet.inner_radius, rho, start, end, surface_current)
-    return field
+        value = value - sheet_function(magnet.inner_radius, rho, start, end, surface_current)
+    return value
 
 
 def flux_from_field(field, center, normal, radius, radial_nodes=16, angular_nodes=32,

@@ -193,12 +193,22 @@ def field_with_error(bodies, points, allowed_error, table=None):
         |B| [T] of the model used and a bound on |true |B| - magnitude| [T]. Non-finite
         values (points on a body's edge) come back as +inf.
     """
+    vector, error = field_vector_with_error(bodies, points, allowed_error, table)
+    magnitude = np.linalg.norm(vector, axis=1)
+    magnitude[~np.isfinite(magnitude)] = np.inf
+    return magnitude, error
+
+
+def field_vector_with_error(bodies, points, allowed_error, table=None):
+    """B (n, 3) [T] of the model of :func:`field_with_error` and the bound (n,) [T] on |B| error.
+
+    The same model (exact near each body, dipoles where their remainder fits the allowed
+    error); for callers that need the vector, such as the map's interpolation guard.
+    """
     points = np.asarray(points, dtype=float).reshape(-1, 3)
     table = body_table(bodies, table)
     far, error, _ = dipole_assignment(bodies, points, allowed_error, table)
-    magnitude = np.linalg.norm(model_field(bodies, points, far, table), axis=1)
-    magnitude[~np.isfinite(magnitude)] = np.inf
-    return magnitude, error
+    return model_field(bodies, points, far, table), error
 
 
 def _ball_geometry(bodies, points, table=None, centre_distance=None):

@@ -42,7 +42,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from planner.physics.zones.bounds import K, BodyTable, body_table, dipole_assignment, model_field
+from planner.physics.zones.bounds import K, BodyTable, body_table, field_vector_with_error
 
 VIEWS = {"plan": (0, 1, 2), "elevation": (0, 2, 1)}  # (across-page, up-page, normal) axes
 INSIDE_VALUE = 1e3  # [T] written where the field is not finite (on a body's edge)
@@ -188,8 +188,7 @@ class _PlaneGrid:
         if not len(rows):
             return
         points = plane_points(self.view, self.offset, self.u[columns], self.v[rows])
-        far, error, _ = dipole_assignment(self.bodies, points, self.allowed_error, self.table)
-        vector = model_field(self.bodies, points, far, self.table)
+        vector, error = field_vector_with_error(self.bodies, points, self.allowed_error, self.table)
         value = np.sqrt(np.einsum("nk,nk->n", vector, vector)) + error
         finite = np.isfinite(value)
         self.value[rows, columns] = np.where(finite, value, INSIDE_VALUE)

@@ -42,7 +42,8 @@ from __future__ import annotations
 
 import numpy as np
 
-from planner.physics.zones.bounds import K, BodyTable, body_table, field_vector_with_error
+from planner.physics.zones.bounds import (BodyTable, _ball_geometry, body_table, derivative_bound,
+                                          field_vector_with_error)
 
 VIEWS = {"plan": (0, 1, 2), "elevation": (0, 2, 1)}  # (across-page, up-page, normal) axes
 INSIDE_VALUE = 1e3  # [T] written where the field is not finite (on a body's edge)
@@ -111,7 +112,8 @@ def interpolation_remainder(bodies, centres, width, depth, table=None):
     M2 <= sum_i 24 k m_i / (d_i - a_i - rho)^5 with d_i the centre distance and a_i the
     bounding radius (0 for a sphere, whose outside field is its centre dipole's). Valid
     where every ball stays outside every bounding sphere (a sphere: outside the body);
-    +inf elsewhere.
+    +inf elsewhere. Computed by :func:`planner.physics.zones.bounds.derivative_bound` of
+    order 2, which takes the surface-charge form instead where that is smaller.
 
     References
     ----------
@@ -131,12 +133,10 @@ def interpolation_remainder(bodies, centres, width, depth, table=None):
     width, depth = np.asarray(width, dtype=float), np.asarray(depth, dtype=float)
     table = body_table(bodies, table)
     spread = 0.5 * np.hypot(width, depth)
-    distance = table.centre_distances(centres) - spread[:, None]  # nearest approach of each ball
-    clear = distance > table.reach
-    with np.errstate(divide="ignore", over="ignore"):
-        gap = np.where(clear, distance - table.shift, 1.0)
-        curvature = np.where(clear, 24 * K * table.moments / gap**5, np.inf)
-    return (width**2 + depth**2) / 8 * np.sum(curvature, axis=1)
+    # The shared bound on ||D^2 B|| (its volume form is the sum above; the surface form can
+    # only lower it); solid distances taken as d - a, which needs no per-cell geometry.
+    geometry = _ball_geometry(bodies, centres, table, exact=False)
+    return (width**2 + depth**2) / 8 * derivative_bound(geometry, spread, 2)
 
 
 def _bilinear(corners, s, t):

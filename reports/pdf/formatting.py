@@ -14,7 +14,7 @@ from __future__ import annotations
 import math
 from typing import Any
 
-from planner.units import MICRO_SIGN, format_quantity
+from planner.units import MICRO_SIGN, format_number, format_quantity
 
 SIGNIFICANT = 3
 
@@ -40,23 +40,17 @@ _UNIT_TOKENS = {"V": "V", "A": "A", "W": "W", "J": "J", "N": "N", "T": "T", "m":
 
 
 def number(value: float, digits: int = SIGNIFICANT) -> str:
-    """A number to `digits` significant figures without exponent for everyday sizes."""
+    """A number to `digits` significant figures, as :func:`planner.units.format_number` writes it.
+
+    ``-`` for None, yes/no for booleans, ``no limit`` or ``not defined`` for infinity and NaN.
+    """
     if value is None:
         return "-"
     if isinstance(value, bool):
         return "yes" if value else "no"
     if not math.isfinite(value):
         return "not defined" if math.isnan(value) else ("no limit" if value > 0 else "-no limit")
-    if value == 0:
-        return "0"
-    magnitude = abs(value)
-    if 1e-4 <= magnitude < 1e6:
-        decimals = max(0, digits - 1 - int(math.floor(math.log10(magnitude))))
-        text = f"{value:.{decimals}f}"
-        if "." in text:
-            text = text.rstrip("0").rstrip(".")
-        return text
-    return f"{value:.{digits}g}"
+    return format_number(float(value), digits)
 
 
 def quantity(value: float | None, unit: str, digits: int = SIGNIFICANT) -> str:

@@ -87,14 +87,13 @@ def body_table(bodies, table=None):
 
 
 def _mean_square_radius(body):
+    """s^2, the mean of |y - c|^2 over the volume [m^2]: the trace of the fields module's second
+    moments over the volume; 0 for a sphere, whose outside field is exactly its dipole's."""
     if body.shape == "sphere":
         return 0.0
-    if body.shape == "block":
-        return float(np.sum(body.size**2) / 12)
-    outer, inner = body.diameter / 2, body.inner_diameter / 2
-    if body.shape == "cylinder":
-        inner = 0.0
-    return (outer**2 + inner**2) / 2 + body.height**2 / 12
+    from planner.physics.fields import second_moments
+
+    return float(np.trace(second_moments(body)) / body.volume)
 
 
 def _surface_coefficients(body):

@@ -164,6 +164,21 @@ def inside(body: MagnetBody, points, margin: float = 0.0) -> np.ndarray:
     return np.linalg.norm(local, axis=1) < body.diameter / 2 - margin
 
 
+def distance_to_body(body: MagnetBody, points) -> np.ndarray:
+    """Distance [m] from global points (n, 3) [m] to the solid ``body``; 0 inside it."""
+    local = body.to_body(points)
+    if body.shape == "sphere":
+        return np.maximum(np.linalg.norm(local, axis=1) - body.diameter / 2, 0.0)
+    if body.shape == "block":
+        return np.linalg.norm(np.maximum(np.abs(local) - body.size / 2, 0.0), axis=1)
+    radial = np.hypot(local[:, 0], local[:, 1])
+    beyond_end = np.maximum(np.abs(local[:, 2]) - body.height / 2, 0.0)
+    beside = np.maximum(radial - body.diameter / 2, 0.0)
+    if body.shape == "ring":
+        beside = np.where(radial < body.inner_diameter / 2, body.inner_diameter / 2 - radial, beside)
+    return np.hypot(beside, beyond_end)
+
+
 def sample_points(body: MagnetBody, per_axis: int = 9) -> np.ndarray:
     """A regular grid of points in ``body``, its surface included (n, 3) [m], for overlap checks."""
     t = np.linspace(-1.0, 1.0, per_axis)  # the ends lie on the surface, so shallow overlaps are caught

@@ -35,6 +35,8 @@ from math import factorial, pi
 import numpy as np
 from scipy.constants import mu_0
 
+from planner.physics.bodies import distance_to_body
+
 K = mu_0 / (4 * np.pi)
 # b_n of the curved-face term of the near-field derivative bounds (see derivative_bounds)
 _CURVED = {0: 0.0, 1: 2.0, 2: pi / 2, 3: 4.0 / 3.0}
@@ -106,21 +108,6 @@ def _surface_coefficients(body):
     axial, radial = abs(along[2]), float(np.hypot(along[0], along[1]))
     radii = body.diameter / 2 + (body.inner_diameter / 2 if body.shape == "ring" else 0.0)
     return 2 * axial, 2 * radial * radii
-
-
-def distance_to_body(body, points):
-    """Distance from points (n, 3) to the solid body [m]; 0 inside."""
-    local = body.to_body(points)
-    if body.shape == "sphere":
-        return np.maximum(np.linalg.norm(local, axis=1) - body.diameter / 2, 0.0)
-    if body.shape == "block":
-        return np.linalg.norm(np.maximum(np.abs(local) - body.size / 2, 0.0), axis=1)
-    radial = np.hypot(local[:, 0], local[:, 1])
-    beyond_end = np.maximum(np.abs(local[:, 2]) - body.height / 2, 0.0)
-    beside = np.maximum(radial - body.diameter / 2, 0.0)
-    if body.shape == "ring":
-        beside = np.where(radial < body.inner_diameter / 2, body.inner_diameter / 2 - radial, beside)
-    return np.hypot(beside, beyond_end)
 
 
 def dipole_assignment(bodies, points, allowed_error, table=None, distance=None):

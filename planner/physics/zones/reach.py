@@ -9,7 +9,8 @@ from __future__ import annotations
 
 import numpy as np
 
-from planner.physics.zones.bounds import BodyTable, distance_to_body, field_with_error, gradient_bound
+from planner.physics.bodies import distance_to_body
+from planner.physics.zones.bounds import BodyTable, field_with_error, gradient_bound
 
 
 RELATIVE_TOLERANCE = 0.05  # the bound on the largest field is refined to within 5 % of a sampled value

@@ -394,6 +394,23 @@ def test_well_separated_pair_needs_one_field_call():
     assert force[2] == pytest.approx(exact, rel=1e-3)
 
 
+def test_far_pair_through_the_multipole_series_equals_the_closed_form():
+    # independent computation: the same first pass with the source's closed form (given as
+    # the field function) and with the exterior multipole series the pair uses by default
+    from planner.physics.forces.face_rules import _series_ratio
+
+    source, start = SOURCE_CYLINDER, ACCURACY_CASES["coaxial 1 mm"][1]
+    for turn in (np.eye(3), rotation_from_axis([0.5, 0.2, 1.0])):
+        target = replace(start, rotation=turn, polarization=turn @ [0.3, 0.0, 1.1],
+                         center=start.center + [4e-3, -2e-3, 0])
+        target = place_at_gap(target, source, [0, 0, -1], 20e-3)
+        assert _series_ratio(target, source, np.linalg.norm(target.center - source.center))
+        series = np.concatenate(force_and_torque_by_charges(target, source))
+        closed = np.concatenate(force_and_torque_by_charges(
+            target, source, field=lambda points: field_of_body(source, points)))
+        assert np.abs(series - closed).max() <= 1e-9 * np.abs(closed).max()
+
+
 # --- the nested quadrature rules ------------------------------------------------------------
 
 def test_nested_interval_rules_match_published_nodes_and_degrees():

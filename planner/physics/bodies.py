@@ -18,6 +18,8 @@ Derby & Olbert, Am. J. Phys. 78, 229-235 (2010). Source: ../shared/reference/phy
 """
 from __future__ import annotations
 
+import math
+
 from dataclasses import dataclass, field
 
 import numpy as np
@@ -96,7 +98,7 @@ class MagnetBody:
     def bounding_radius(self) -> float:
         """Radius of the smallest centred sphere that holds the body [m]."""
         if self.shape in ("cylinder", "ring"):
-            return float(np.hypot(self.diameter / 2, self.height / 2))
+            return math.hypot(self.diameter / 2, self.height / 2)
         if self.shape == "block":
             return float(np.linalg.norm(self.size) / 2)
         return self.diameter / 2

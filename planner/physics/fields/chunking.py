@@ -10,6 +10,8 @@ No physics here; the block size was measured with benchmarks/fields.py (see BLOC
 """
 from __future__ import annotations
 
+import math
+
 import numpy as np
 
 BLOCK_POINTS = 8192  # 64 kB per array; 4096..32768 measured within noise of each other
@@ -77,6 +79,6 @@ def without_rounding_noise(polarization):
     >>> without_rounding_noise([1e-17, 0.0, 1.2]).tolist()
     [0.0, 0.0, 1.2]
     """
-    polarization = np.array(polarization, dtype=float).reshape(3)
-    polarization[np.abs(polarization) <= ROUNDING_NOISE * np.linalg.norm(polarization)] = 0.0
-    return polarization
+    components = np.asarray(polarization, dtype=float).reshape(3).tolist()
+    noise = ROUNDING_NOISE * math.sqrt(sum(c * c for c in components))
+    return np.array([c if abs(c) > noise else 0.0 for c in components])

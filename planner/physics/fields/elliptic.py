@@ -18,6 +18,8 @@ N. Derby and S. Olbert, "Cylindrical magnets and ideal solenoids", Am. J. Phys. 
 """
 from __future__ import annotations
 
+import math
+
 import numpy as np
 
 _TOLERANCE = 1e-8  # Bulirsch's test |g - kc| <= tol*g; quadratic convergence then gives ~1e-16
@@ -72,6 +74,8 @@ def complete_elliptic_integrals(kc, groups, first_kind=False):
     """
     kc = np.abs(np.asarray(kc, dtype=float))
     degenerate = ~(kc > 0)  # kc = 0 (divergent) or NaN never converge; keep them out of the test
+    if not degenerate.any():
+        degenerate = None
     steps = _steps_needed(kc, degenerate)
     k = kc.copy()
     k_e = kc.copy()
@@ -122,12 +126,14 @@ def complete_elliptic_integrals(kc, groups, first_kind=False):
         group = []
         for c_arr, s_arr in coefficient_pairs:
             value = (s_arr + c_arr * m) / denominator
-            value[degenerate] = np.nan
+            if degenerate is not None:
+                value[degenerate] = np.nan
             group.append(value)
         results.append(group)
     if first_kind:
         complete_k = (np.pi / 2 * 2.0**steps) / m
-        complete_k[degenerate] = np.nan
+        if degenerate is not None:
+            complete_k[degenerate] = np.nan
         return results, complete_k
     return results
 
@@ -137,9 +143,10 @@ def _steps_needed(kc, degenerate):
 
     The modulus sequence (the arithmetic-geometric mean of 1 and kc) converges the more
     slowly the smaller kc, so the count is that of the smallest regular entry; it is run
-    here on one float with the same operations and test as the array loop.
+    here on one float with the same operations and test as the array loop. ``degenerate``
+    marks the entries to leave out (None: none).
     """
-    regular = kc[~degenerate] if degenerate.any() else kc
+    regular = kc if degenerate is None else kc[~degenerate]
     if regular.size == 0:
         return 1
     k = k_e = float(regular.min())
@@ -149,6 +156,6 @@ def _steps_needed(kc, degenerate):
         m = m + k
         if converged:
             return step
-        k = 2.0 * np.sqrt(k_e)
+        k = 2.0 * math.sqrt(k_e)
         k_e = k * m
     return _MAX_STEPS

@@ -13,8 +13,9 @@ For each arrangement (coaxial, offset, tilted) and gap (1, 5, 20 mm) it reports:
 - the time of one call of the source's closed-form field at the first pass's nodes (168 to
   336, fewer for pairs farther apart): the floor under which our force cannot go without a
   faster field function, and the speed-up over magpylib that floor would give ("cap").
-Times are the best of 30 repeats, ours and magpylib's taken alternately so that a load on
-the machine weighs on both alike; the ratios are steadier than the absolute times.
+Times are the best mean over 15 blocks of 10 consecutive calls, the blocks of ours and
+magpylib's taken alternately so that a load on the machine weighs on both alike; the
+ratios are steadier than the absolute times.
 Then the exact fast paths (coaxial cylinders, parallel cuboids) are timed.
 
 Measured on the 2-core development machine (December 2026), with other jobs running:
@@ -31,10 +32,11 @@ import time
 import numpy as np
 
 from planner.physics.bodies import MagnetBody, rotation_from_axis
-from planner.physics.fields import cylinder_field, field_of_body
+from planner.physics.fields import field_of_body
 from planner.physics.forces import force_and_torque_by_charges, force_between, place_at_gap
 from planner.physics.forces.charge_model import _rule_key, surface_charge_patches
-from planner.physics.forces.face_rules import first_pass_size, whole_face_rule
+from planner.physics.forces.face_rules import (_series_ratio, field_in_frame_of, first_pass_size,
+                                               whole_face_rule)
 from planner.physics.forces.quadrature import adaptive_box_integral
 
 SOURCE = MagnetBody("cylinder", [0, 0, 0], np.eye(3), [0, 0, 1.3], diameter=10e-3, height=5e-3)
@@ -46,7 +48,8 @@ TARGETS = {
 }
 GAPS = (1e-3, 5e-3, 20e-3)
 MESH_LADDER = (10, 30, 100, 300, 1000, 3000, 10000, 30000, 100000, 300000)
-REPEATS = 30
+REPEATS = 15
+CALLS_PER_BLOCK = 10
 
 
 def reference_force(target, source, rtol=1e-10):
@@ -67,14 +70,21 @@ def reference_force(target, source, rtol=1e-10):
                                  lambda v: np.linalg.norm(v, axis=-1), rtol=rtol, orders=(8, 12))
 
 
-def alternate_best_times(functions, repeats=REPEATS):
-    """Best time of each function, calling them in turn ``repeats`` times [s]."""
+def alternate_best_times(functions, repeats=REPEATS, calls=CALLS_PER_BLOCK):
+    """Best mean time per call of each function [s], over blocks of ``calls`` calls in turn.
+
+    Blocks of consecutive calls measure each function as a caller meets it (a snap scan or
+    an energy integral calls the force many times in a row); alternating the blocks makes a
+    load on the machine weigh on both alike. Single calls in turn would time each function
+    just after the other has filled the processor caches with its own arrays.
+    """
     best = [np.inf] * len(functions)
     for _ in range(repeats):
         for k, function in enumerate(functions):
             start = time.perf_counter()
-            function()
-            best[k] = min(best[k], time.perf_counter() - start)
+            for _ in range(calls):
+                function()
+            best[k] = min(best[k], (time.perf_counter() - start) / calls)
     return best
 
 
@@ -88,11 +98,12 @@ def magpylib_object(magpy, body):
 
 
 def first_pass_field_call(target, source):
-    """One call of the source's closed form at the nodes of the target's first pass."""
+    """One call of the field the first pass uses (closed form or series) at its nodes."""
     rule = whole_face_rule(*_rule_key(target), *first_pass_size(target, source))
-    points = target.center + rule.points @ target.rotation.T  # source at the origin, unturned
-    J = source.polarization_body
-    return len(points), lambda: cylinder_field(points, source.diameter, source.height, J)
+    local_field = field_in_frame_of(target, source)
+    distance = float(np.linalg.norm(target.center - source.center))
+    model = "series" if _series_ratio(target, source, distance) else "closed"
+    return model, lambda: local_field(rule.points)
 
 
 def main():
@@ -101,20 +112,20 @@ def main():
     except ImportError:  # the comparison needs the test-only reference library
         magpy = None
     print(f"{'case':8} {'gap':>5} {'ours ms':>8} {'ours err':>9} {'mesh':>7} {'ref ms':>8} "
-          f"{'ref err':>8} {'speed-up':>8} {'field ms':>9} {'cap':>6}")
+          f"{'ref err':>8} {'speed-up':>8} {'field ms':>9} {'model':>6} {'cap':>6}")
     for name, start in TARGETS.items():
         for gap in GAPS:
             target = place_at_gap(start, SOURCE, [0, 0, -1], gap)
             truth = reference_force(target, SOURCE)
             ours = force_and_torque_by_charges(target, SOURCE)[0]
             ours_error = np.linalg.norm(ours - truth) / np.linalg.norm(truth)
-            nodes, field_call = first_pass_field_call(target, SOURCE)
+            model, field_call = first_pass_field_call(target, SOURCE)
             line = f"{name:8} {gap * 1e3:3.0f}mm"
             if magpy is None:
                 ours_time, field_time = alternate_best_times(
                     [lambda: force_and_torque_by_charges(target, SOURCE), field_call])
                 print(f"{line} {ours_time * 1e3:8.3f} {ours_error:9.1e} "
-                      f"{field_time * 1e3:9.3f} ({nodes} nodes)")
+                      f"{field_time * 1e3:9.3f} {model}")
                 continue
             source_object, target_object = (magpylib_object(magpy, SOURCE),
                                             magpylib_object(magpy, target))
@@ -130,9 +141,9 @@ def main():
                 field_call])
             print(f"{line} {ours_time * 1e3:8.3f} {ours_error:9.1e} {cells:7d} "
                   f"{ref_time * 1e3:8.3f} {error:8.1e} {ref_time / ours_time:7.1f}x "
-                  f"{field_time * 1e3:9.3f} {ref_time / field_time:5.1f}x{flag}")
-    print("field ms: one closed-form field call at the first pass's nodes; cap: magpylib's "
-          "time over it")
+                  f"{field_time * 1e3:9.3f} {model:>6} {ref_time / field_time:5.1f}x{flag}")
+    print("field ms: the first pass's one field call at its nodes (model: the source's closed "
+          "form, or its multipole series for pairs far apart); cap: magpylib's time over it")
     block_a = MagnetBody("block", [0, 0, 0], np.eye(3), [0, 0, 1.3], size=[10e-3, 6e-3, 5e-3])
     block_b = MagnetBody("block", [3e-3, 1e-3, 6e-3], np.eye(3), [0, 0, 1.2], size=[8e-3, 6e-3, 4e-3])
     coaxial = place_at_gap(TARGETS["coaxial"], SOURCE, [0, 0, -1], 1e-3)

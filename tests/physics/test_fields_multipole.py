@@ -129,3 +129,23 @@ def test_far_away_the_series_is_the_dipole_field():
     volume = np.pi * radius**2 * 2 * half
     dipole = dipole_field(points, J * volume / mu_0, [0.0, 0.0, 0.0])
     np.testing.assert_allclose(series, dipole, rtol=1e-12, atol=1e-12 * np.abs(dipole).max())
+
+
+@pytest.mark.parametrize("shape", SHAPES)
+def test_zonal_moments_against_direct_integration(shape):
+    # independent computation: c_l = (1/4 pi) integral r^l P_l(cos theta) dV by tensor
+    # Gauss-Legendre quadrature in (rho, z) with numpy's Legendre series (no solid-harmonic
+    # expansion); exact up to rounding for these polynomial integrands
+    from numpy.polynomial import legendre
+
+    radius, bore, half = SHAPES[shape]
+    nodes, weights = legendre.leggauss(40)
+    rho = bore + (radius - bore) * (nodes + 1) / 2
+    z = half * nodes
+    R, Z = np.meshgrid(rho, z, indexing="ij")
+    W = np.outer(weights * (radius - bore) / 2, weights * half) * 2 * np.pi * R
+    r = np.hypot(R, Z)
+    ours = zonal_moments(radius, bore, half, 20)
+    for index, degree in enumerate(range(0, 21, 2)):
+        direct = np.sum(W * r**degree * legendre.legval(Z / r, np.eye(degree + 1)[degree])) / (4 * np.pi)
+        assert ours[index] == pytest.approx(direct, rel=1e-10, abs=1e-13 * ours[0] * np.hypot(radius, half) ** degree)

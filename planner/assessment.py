@@ -106,6 +106,7 @@ class PairFigures:
     force_at_contact_N: float
     force_at_finger_gap_N: float
     finger_gap_m: float
+    pressure_at_finger_gap_Pa: float  # that force over the smaller pole face (a lower bound of the pad pressure)
     snap_distance_bench_m: float
     snap_distance_hand_m: float
     pinch_energy_J: float

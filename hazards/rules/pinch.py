@@ -3,7 +3,7 @@ from __future__ import annotations
 
 from hazards.findings import ACTION, BLOCKING, Finding, is_number, missing_figure, show, source_entry, \
     threshold_map, threshold_text
-from hazards.rules.common import activities_of, items, magnet_figures_by_id
+from hazards.rules.common import activities_of, items
 
 CONCERN = "pinch"
 
@@ -24,15 +24,12 @@ def pinch(setup, assessment, thresholds) -> list:
         findings.append(missing_figure(CONCERN, "the forces between the magnets brought together",
                                        "Bring the parts together only with spacers and jigs until figures exist.",
                                        severity=BLOCKING))
-    magnets = magnet_figures_by_id(assessment)
     for pair in pairs:
         name = f"`{pair.magnet_id}` and `{pair.other_id}`"
         key = f"{pair.magnet_id}.{pair.other_id}"
         clamp, energy = pair.force_at_finger_gap_N, pair.pinch_energy_J
         bound = " (upper bound)" if pair.upper_bound else ""
-        areas = [magnets[i].pole_area_m2 for i in (pair.magnet_id, pair.other_id)
-                 if i in magnets and is_number(magnets[i].pole_area_m2) and magnets[i].pole_area_m2 > 0]
-        pressure = clamp / min(areas) if areas and is_number(clamp) else float("nan")
+        pressure = pair.pressure_at_finger_gap_Pa
         over = [(force_limit, clamp, "force"), (energy_limit, energy, "energy"), (pressure_limit, pressure, "pressure")]
         passed = [(t, v, k) for t, v, k in over if (k != "pressure" or is_number(v)) and _past(v, t.value)]
         figures = [("clamp force at a finger gap of " + show(pair.finger_gap_m, "length"), show(clamp, "force") + bound),

@@ -19,6 +19,7 @@ from scipy.constants import mu_0
 
 from planner import materials
 from planner.assessment import PairFigures, ProjectileFigures
+from planner.calculations.magnets import pole_area
 from planner.physics.bodies import MagnetBody, rotation_about, rotation_from_axis
 from planner.physics.fields import field_of_bodies
 from planner.physics.forces import extent_along, plate_saturation_check
@@ -167,16 +168,21 @@ def _one_pair(activity_id, magnet, other_magnet, steel, approach, parameters) ->
             warnings.append(f"the {steel.thickness * 1e3:g} mm steel saturates under this magnet at contact "
                             f"(about {check.plate_flux_density:.1f} T against {check.saturation_flux_density:.1f} T); "
                             "the real pull is lower than the image-method figure")
+    # the clamp force spread over the smaller pole face: the least pressure a finger pad
+    # can feel between the parts (a smaller contact only raises it)
+    pole_faces = [pole_area(body)] + ([pole_area(other)] if other_magnet is not None else [])
     bench = bench_friction_force(mass, parameters["bench_friction"])
     snap_bench = snap_distance(attraction, bench, limit)
     snap_hand = snap_distance(attraction, parameters["hand_force"], limit)
     start = snap_bench if approach == "sliding_on_bench" else snap_hand
     energy = released_energy(attraction, start, finger_gap) if start > finger_gap else 0.0
+    clamp = float(attraction(finger_gap))
     return PairFigures(
         activity_id=activity_id, magnet_id=magnet.id,
         other_id=(other_magnet.id if other_magnet is not None else steel.id), other_kind=other_kind,
         approach=approach, force_at_contact_N=float(attraction(0.0)),
-        force_at_finger_gap_N=float(attraction(finger_gap)), finger_gap_m=finger_gap,
+        force_at_finger_gap_N=clamp, finger_gap_m=finger_gap,
+        pressure_at_finger_gap_Pa=clamp / min(pole_faces),
         snap_distance_bench_m=snap_bench, snap_distance_hand_m=snap_hand, pinch_energy_J=float(energy),
         impact_speed_m_per_s=impact_speed(energy, mass, other_mass), flip_torque_N_m=torque,
         both_brittle=brittle, upper_bound=upper_bound, warnings=warnings,

@@ -17,9 +17,8 @@ TWO = "  - {id: disc, shape: cylinder, diameter: 10 mm, height: 5 mm, grade: N42
 JOIN = "activities:\n  - {id: join, kind: bring_together, magnet: disc, other: disc2}\n"
 
 
-def _pinch(pole_area_m2=7.85e-5, **figures):
-    a = assessment(magnets=[magnet(pole_area_m2=pole_area_m2), magnet("disc2", pole_area_m2=pole_area_m2)],
-                   pairs=[pair(**figures)])
+def _pinch(**figures):
+    a = assessment(magnets=[magnet(), magnet("disc2")], pairs=[pair(**figures)])
     return ids(pinch(setup_from(JOIN, magnets=TWO), a, list(T.values())))
 
 
@@ -47,7 +46,8 @@ def test_pressure_over_the_pole_face(factor, expected):
     area = math.pi * 2.5e-3 ** 2
     force = T["finger_pad_pressure"].value * area * factor
     assert force < 140  # below the force limit, so only the pressure decides
-    assert ("pinch.disc.disc2" in _pinch(area, force_at_finger_gap_N=force)) is expected
+    found = _pinch(force_at_finger_gap_N=force, pressure_at_finger_gap_Pa=force / area)
+    assert ("pinch.disc.disc2" in found) is expected
 
 
 def test_the_hand_energy_row_follows_from_the_force_and_stiffness():

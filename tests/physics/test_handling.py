@@ -206,3 +206,17 @@ def test_gradient_distance_default_threshold():
     pull = projectile_attraction(SOURCE, origin, [0, 0, 1], distance, rod)[0]
     assert pull / (rod.saturation_magnetization * rod.volume) == pytest.approx(threshold, rel=5e-3)
     assert gradient_distance(SOURCE, origin, [0, 0, 1], threshold=1.0) < distance
+
+
+def test_pair_pressure_is_the_clamp_force_over_the_smaller_pole_face():
+    # identity: pressure = force / area, the area being the smaller of the two pole faces
+    # (pi (5 mm)^2 for the 10 mm disc against a 20 mm one); a magnet on steel uses its own
+    from planner.calculations.handling import pair_figures
+    from tests.hazards import setup_from
+
+    magnets = ("  - {id: small, shape: cylinder, diameter: 10 mm, height: 5 mm, grade: N42, at: [0 mm, 0 mm, 2.5 mm], magnetization: +z}\n"
+               "  - {id: large, shape: cylinder, diameter: 20 mm, height: 5 mm, grade: N42, at: [80 mm, 0 mm, 2.5 mm], magnetization: +z}\n")
+    join = "activities:\n  - {id: join, kind: bring_together, magnet: small, other: large}\n"
+    (figures,) = pair_figures(setup_from(join, magnets=magnets))
+    assert figures.pressure_at_finger_gap_Pa == pytest.approx(figures.force_at_finger_gap_N / (np.pi * 5e-3**2),
+                                                              rel=1e-12)

@@ -49,7 +49,8 @@ def sample_assessment(title: str = "Invented demonstration bench") -> Assessment
                           [[(x, max(z, 0.0)) for x, z in _circle(0.42, -0.4)]])]
     a.zone_reach = [ZoneReach("front-row", "seating", "implant_keep_out", 5e-4, 2e-6, False, True, ["cards"])]
     a.pairs = [PairFigures("two-discs", "disc-a", "disc-b", "magnet", "sliding_on_bench", 35.0, 12.0, 0.01,
-                           0.09, 0.05, 0.4, 2.1, None, True, False, ["both brittle: chips may fly"])]
+                           12.0 / 7.85e-5, 0.09, 0.05, 0.4, 2.1, None, True, False,
+                           ["both brittle: chips may fly"])]
     a.projectiles = [ProjectileFigures("screwdriver", "disc-a", 0.3, 0.12, 0.06, 0.045, False, False)]
     a.induction = [InductionFigures("through-coil", "pass_through_coil",
                                     {"peak_emf_V": 0.012, "peak_current_A": 5.8e-5, "transit_time_s": 0.02}, [])]

@@ -30,13 +30,19 @@ def pinch(setup, assessment, thresholds) -> list:
         clamp, energy = pair.force_at_finger_gap_N, pair.pinch_energy_J
         bound = " (upper bound)" if pair.upper_bound else ""
         pressure = pair.pressure_at_finger_gap_Pa
+        approach = "held in the hand" if pair.approach == "hand" else "sliding on the bench"
+        start = pair.snap_distance_hand_m if pair.approach == "hand" else pair.snap_distance_bench_m
+        # parts that jump together only once closer than a finger release nothing onto it
+        inside_gap = is_number(start) and start <= pair.finger_gap_m
+        nothing = "none: they snap together only inside the finger gap"
         over = [(force_limit, clamp, "force"), (energy_limit, energy, "energy"), (pressure_limit, pressure, "pressure")]
         passed = [(t, v, k) for t, v, k in over if (k != "pressure" or is_number(v)) and _past(v, t.value)]
         figures = [("clamp force at a finger gap of " + show(pair.finger_gap_m, "length"), show(clamp, "force") + bound),
-                   ("energy released onto the finger", show(energy, "energy") + bound),
+                   (f"energy released onto the finger, approach {approach}",
+                    nothing if inside_gap else show(energy, "energy") + bound),
                    ("pressure over the smaller pole face (at least)", show(pressure, "pressure")),
                    ("force at contact", show(pair.force_at_contact_N, "force") + bound),
-                   ("impact speed", show(pair.impact_speed_m_per_s, "speed"))]
+                   ("impact speed", nothing if inside_gap else show(pair.impact_speed_m_per_s, "speed"))]
         if passed:
             findings.append(Finding(
                 id=f"pinch.{key}", severity=BLOCKING, concern=CONCERN,

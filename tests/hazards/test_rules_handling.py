@@ -175,3 +175,15 @@ def test_repelling_against_coercivity(coercivity_factor, expected):
 
 def test_parts_that_never_snap_get_no_separation_rule():
     assert "pinch.handling.disc.disc2" not in _pinch(snap_distance_bench_m=0.0, snap_distance_hand_m=0.0)
+
+
+def test_no_pinch_energy_is_said_in_words_when_the_parts_jump_only_inside_the_finger_gap():
+    # held in the hand they snap at 4 mm, inside a 10 mm finger gap: nothing lands on the finger
+    # (the energy is zero by definition), and the figure says so and names the approach
+    found = _pinch(approach="hand", snap_distance_hand_m=0.004, snap_distance_bench_m=0.06,
+                   pinch_energy_J=0.0, impact_speed_m_per_s=0.0)
+    figures = dict(found["pinch.handling.disc.disc2"].figures)
+    assert figures["energy released onto the finger, approach held in the hand"].startswith("none")
+    assert figures["impact speed"].startswith("none")
+    sliding = dict(_pinch(approach="sliding_on_bench")["pinch.handling.disc.disc2"].figures)
+    assert sliding["energy released onto the finger, approach sliding on the bench"] == "50 mJ"

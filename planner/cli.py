@@ -52,6 +52,27 @@ def guarded(command):
     return wrapper
 
 
+#: Magnets from which a setup's keep-out distances take long enough to say so first
+#: (about 20 s for 30 magnets on a 2-core machine, benchmarks/zones.py).
+MANY_MAGNETS = 20
+
+
+def long_work_notice(setup) -> str | None:
+    """A line for stderr before the figures of a setup with many magnets, else None."""
+    count = len(getattr(setup, "magnets", None) or [])
+    if count < MANY_MAGNETS:
+        return None
+    return (f"benchplan: working out the keep-out distances of {count} magnets; "
+            "a setup this size takes a while (about 20 s for 30 magnets on a 2-core machine)")
+
+
+def announce_long_work(setup) -> None:
+    """Print :func:`long_work_notice` on stderr, if any, so a long wait is not a silent one."""
+    notice = long_work_notice(setup)
+    if notice:
+        click.echo(notice, err=True)
+
+
 @click.group(context_settings={"help_option_names": ["-h", "--help"]})
 @click.version_option(__version__, prog_name="benchplan")
 @click.option("--debug", is_flag=True, help="Show the full traceback of internal errors.")

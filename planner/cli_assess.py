@@ -8,7 +8,7 @@ from pathlib import Path
 import click
 
 from hazards.findings import SEVERITIES, severity_rank
-from planner.cli import EXIT_BLOCKING, guarded, setup_argument
+from planner.cli import EXIT_BLOCKING, announce_long_work, guarded, setup_argument
 from planner.setup import load_setup
 
 
@@ -26,6 +26,7 @@ def assess(setup_file: Path, as_json: bool, fail_on: str | None) -> None:
     from planner.assess import assess as assess_setup
     from reports.terminal import render_terminal
 
+    announce_long_work(setup)
     assessment = assess_setup(setup)
     if as_json:
         click.echo(json.dumps(assessment.to_dict(), indent=2, allow_nan=False))

@@ -12,7 +12,7 @@ from pathlib import Path
 
 import click
 
-from planner.cli import EXIT_BLOCKING, UserInputError, guarded, setup_argument
+from planner.cli import EXIT_BLOCKING, UserInputError, announce_long_work, guarded, setup_argument
 from planner.setup import load_setup
 
 register_option = click.option(
@@ -91,6 +91,7 @@ def report(setup_file: Path, out: Path | None, register_file: Path | None) -> No
 
     setup = load_setup(setup_file)
     status, fingerprint = _status(setup_file, setup, register_file)
+    announce_long_work(setup)
     assessment = assess(setup)
     pdf = render_pdf(inputs_from_setup(setup, assessment, fingerprint, status))
     target = out if out is not None else setup_file.with_name(f"{setup_file.stem}-checklist.pdf")

@@ -182,3 +182,19 @@ def test_an_internal_error_in_grades_is_caught_too(run, monkeypatch):
     monkeypatch.setattr(planner.summary, "material_tables", lambda: 1 / 0)
     result = run("grades")
     assert result.exit_code == 3 and "ZeroDivisionError" in result.stderr and "Traceback" not in result.output
+
+
+def test_a_setup_with_many_magnets_is_announced_before_the_long_work():
+    # 20 magnets and up: keep-out distances take tens of seconds (benchmarks/zones.py), so the
+    # assess and report commands say so on stderr first; the examples (at most 12) stay quiet
+    from planner.cli import MANY_MAGNETS, long_work_notice
+    from planner.setup import load_setup
+    from tests.hazards import setup_from
+
+    def discs(count):
+        return "".join(f"  - {{id: m{k}, shape: cylinder, diameter: 5 mm, height: 2 mm, grade: N42, "
+                       f"at: [{100 * k} mm, 0 mm, 1 mm], magnetization: +z}}\n" for k in range(count))
+    notice = long_work_notice(setup_from(magnets=discs(MANY_MAGNETS)))
+    assert notice is not None and f"{MANY_MAGNETS} magnets" in notice
+    assert long_work_notice(setup_from(magnets=discs(MANY_MAGNETS - 1))) is None
+    assert all(long_work_notice(load_setup(path)) is None for path in example_setup_paths())

@@ -33,7 +33,7 @@ from numpy.polynomial import legendre, polynomial
 __all__ = ["MAX_RATIO", "zonal_moments", "cached_zonal_moments", "terms_needed",
            "axisymmetric_series_field"]
 
-#: Largest bounding radius / distance at which the series is used (about 28 terms there).
+#: Largest bounding radius / distance at which the series is used (it runs to degree 28 there).
 MAX_RATIO = 0.3
 #: Relative size of the neglected rest, as a fraction of J V / (4 pi r^3) (the smallest
 #: magnitude of the dipole field at r).

@@ -29,19 +29,24 @@ def _unit_cylinder_terms(rho, z, radius, half_height, transverse):
     W = -(a / (pi rho)) sum_{+-} (+-) beta_+- [C(k,1,0,1) - gamma^2 C(k,gamma^2,0,1)],
     obtained by integrating the surface form grad Phi = -(1/4 pi) oint n'/|r - r'| dA' over
     z' and by parts over phi'. On the axis W -> -(1/4) sum (+-) zeta/sqrt(zeta^2 + a^2).
+    The two end faces are the rows of (2, n) arrays, so that every step is one array
+    operation for both.
     """
     a = radius
-    zeta = np.concatenate([z + half_height, z - half_height])
-    rho2 = np.concatenate([rho, rho])
-    sum_radius = rho2 + a
-    outer = np.sqrt(zeta * zeta + sum_radius * sum_radius)
-    kc = np.sqrt(zeta * zeta + (a - rho2) ** 2) / outer
-    gamma = (a - rho2) / sum_radius
+    zeta = np.empty((2,) + z.shape)
+    np.add(z, half_height, out=zeta[0])
+    np.subtract(z, half_height, out=zeta[1])
+    sum_radius = rho + a
+    difference = a - rho
+    zeta_squared = zeta * zeta
+    outer = np.sqrt(zeta_squared + sum_radius * sum_radius)
+    kc = np.sqrt(zeta_squared + difference * difference) / outer
+    gamma = difference / sum_radius
     # at rho = a exactly (gamma = 0, p = 0) C(kc, p, 1, gamma) -> K(kc) +- pi/(2 kc); take the
     # mean of the two sides, K(kc) = C(kc, 1, 1, 1): B_z there is the average of in and out.
     gamma_squared = gamma * gamma
-    on_rim = gamma == 0.0
-    if on_rim.any():
+    if np.any(gamma == 0.0):
+        on_rim = gamma == 0.0
         p = np.where(on_rim, 1.0, gamma_squared)
         s_axial = np.where(on_rim, 1.0, gamma)
     else:
@@ -52,27 +57,24 @@ def _unit_cylinder_terms(rho, z, radius, half_height, transverse):
         values, complete_k = complete_elliptic_integrals(kc, groups, first_kind=True)
     else:
         values = complete_elliptic_integrals(kc, groups)
-    alpha = a / outer
+    radial_terms = (a / outer) * values[0][0]
     beta = zeta / outer
-    n = rho.shape[0]
-    radial_terms = alpha * values[0][0]
     axial_terms = beta * values[1][0]
-    b_rho = (radial_terms[:n] - radial_terms[n:]) / np.pi
-    b_z = a / (a + rho) * (axial_terms[:n] - axial_terms[n:]) / np.pi
+    b_rho = (radial_terms[0] - radial_terms[1]) / np.pi
+    b_z = a / sum_radius * (axial_terms[0] - axial_terms[1]) / np.pi
     if not transverse:
         return b_rho, b_z, None
     # C(kc,1,0,1) = (K - C(kc,1,1,-1))/2 by linearity in (c, s), as K = C(kc,1,1,1); for
     # kc <= 1, K > 0 and C(kc,1,1,-1) <= 0, so this adds two positive numbers: no cancellation
     sine_integral = complete_k - values[0][0]
     sine_integral *= 0.5
-    bracket = sine_integral - gamma_squared * values[1][1]
-    bracket_terms = beta * bracket
+    bracket_terms = beta * (sine_integral - gamma_squared * values[1][1])
     near_axis = rho < _AXIS_FRACTION * a
     with np.errstate(divide="ignore", invalid="ignore"):
-        w = -a / (np.pi * rho) * (bracket_terms[:n] - bracket_terms[n:])
+        w = -a / (np.pi * rho) * (bracket_terms[0] - bracket_terms[1])
     if np.any(near_axis):
-        axis_terms = zeta / np.sqrt(zeta * zeta + a * a)
-        w_axis = -0.25 * (axis_terms[:n] - axis_terms[n:])
+        axis_terms = zeta / np.sqrt(zeta_squared + a * a)
+        w_axis = -0.25 * (axis_terms[0] - axis_terms[1])
         w = np.where(near_axis, w_axis, w)
     return b_rho, b_z, w
 
@@ -135,24 +137,31 @@ def cylinder_field(points, diameter, height, polarization):
 def _cylinder_field_block(points, radius, half_height, polarization):
     """:func:`cylinder_field` for one block of points (see there)."""
     x, y, z = points[:, 0], points[:, 1], points[:, 2]
-    rho = np.hypot(x, y)
-    transverse = bool(polarization[0] != 0.0 or polarization[1] != 0.0)
+    rho = np.sqrt(x * x + y * y)
+    jx, jy, jz = polarization.tolist()
+    transverse = jx != 0.0 or jy != 0.0
     b_rho, b_z, w = _unit_cylinder_terms(rho, z, radius, half_height, transverse)
+    field = np.empty_like(points)
+    if not transverse:
+        # B_x = b_rho jz cos(phi) = (b_rho jz / rho) x; on the axis b_rho = 0 (kc = 1)
+        with np.errstate(divide="ignore", invalid="ignore"):
+            per_rho = np.where(rho > 0, b_rho * jz / rho, 0.0)
+        np.multiply(per_rho, x, out=field[:, 0])
+        np.multiply(per_rho, y, out=field[:, 1])
+        np.multiply(b_z, jz, out=field[:, 2])
+        return field
     with np.errstate(divide="ignore", invalid="ignore"):
         cos_phi = np.where(rho > 0, x / rho, 1.0)
         sin_phi = np.where(rho > 0, y / rho, 0.0)
-    jx, jy, jz = polarization
-    field = np.empty_like(points)
     field[:, 0] = b_rho * jz * cos_phi
     field[:, 1] = b_rho * jz * sin_phi
     field[:, 2] = b_z * jz
-    if transverse:
-        inside = np.heaviside(radius - rho, 0.5) * np.heaviside(half_height - np.abs(z), 0.5)
-        radial_j = jx * cos_phi + jy * sin_phi
-        along_n = -(2.0 * w + b_z) * radial_j
-        field[:, 0] += (w + inside) * jx + along_n * cos_phi
-        field[:, 1] += (w + inside) * jy + along_n * sin_phi
-        field[:, 2] += b_rho * radial_j
+    inside = np.heaviside(radius - rho, 0.5) * np.heaviside(half_height - np.abs(z), 0.5)
+    radial_j = jx * cos_phi + jy * sin_phi
+    along_n = -(2.0 * w + b_z) * radial_j
+    field[:, 0] += (w + inside) * jx + along_n * cos_phi
+    field[:, 1] += (w + inside) * jy + along_n * sin_phi
+    field[:, 2] += b_rho * radial_j
     return field
 
 

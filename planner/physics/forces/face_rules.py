@@ -252,7 +252,8 @@ def field_in_frame_of(target: MagnetBody, source: MagnetBody, field=None):
     else:
         def closed_form(q):
             return sphere_field(q, source.diameter, J)
-    return lambda points: closed_form(points @ turn.T + shift) @ turn
+    turn_back = np.ascontiguousarray(turn.T)
+    return lambda points: closed_form(points @ turn_back + shift) @ turn
 
 
 def _series_ratio(target, source, distance):

@@ -131,6 +131,18 @@ def show_field(tesla) -> str:
     return format_flux_density(tesla) if is_number(tesla) else "not available"
 
 
+def snap_text(distance, formatted: str) -> str:
+    """A snap distance as printed: ``none`` where the parts never jump together, else ``formatted``.
+
+    A snap distance of 0 m means the attraction stays below the grip or the bench friction
+    at every gap: the parts only stick when put in contact, which "0 m" does not say.
+
+    >>> snap_text(0.0, "0 m"), snap_text(0.03, "30 mm")
+    ('none', '30 mm')
+    """
+    return "none" if is_number(distance) and distance == 0 else formatted
+
+
 def show(value, kind: str) -> str:
     """A value with a readable unit for the terminal and JSON: ``show(0.012, "length") -> '12 mm'``.
 

@@ -1,8 +1,8 @@
 """Fingers between magnets, or between a magnet and steel: clamp force, pinch energy, snap distances."""
 from __future__ import annotations
 
-from hazards.findings import ACTION, BLOCKING, Finding, is_number, missing_figure, show, source_entry, \
-    threshold_map, threshold_text
+from hazards.findings import ACTION, BLOCKING, Finding, is_number, missing_figure, show, snap_text, \
+    source_entry, threshold_map, threshold_text
 from hazards.rules.common import activities_of, items
 
 CONCERN = "pinch"
@@ -65,15 +65,17 @@ def pinch(setup, assessment, thresholds) -> list:
 
 def _handling(pair, name, key, figures, table) -> Finding:
     snap = [d for d in (pair.snap_distance_bench_m, pair.snap_distance_hand_m) if is_number(d)]
-    snap_text = show(max(snap), "length") if snap else "a distance to be found carefully"
+    largest = show(max(snap), "length") if snap else "a distance to be found carefully"
     return Finding(
         id=f"pinch.handling.{key}", severity=ACTION, concern=CONCERN,
-        title=f"Handling {name}: they snap together from {snap_text}",
-        figures=[("snap distance sliding on the bench", show(pair.snap_distance_bench_m, "length")),
-                 ("snap distance held in the hand", show(pair.snap_distance_hand_m, "length"))] + figures,
+        title=f"Handling {name}: they snap together from {largest}",
+        figures=[("snap distance sliding on the bench",
+                  snap_text(pair.snap_distance_bench_m, show(pair.snap_distance_bench_m, "length"))),
+                 ("snap distance held in the hand",
+                  snap_text(pair.snap_distance_hand_m, show(pair.snap_distance_hand_m, "length")))] + figures,
         why="Inside the snap distance the attraction beats the hand's grip or the bench friction.",
         cautions=list(pair.warnings or []),
-        checklist=[f"Keep {name} at least {snap_text} apart except when joining them on purpose."],
+        checklist=[f"Keep {name} at least {largest} apart except when joining them on purpose."],
         sources=[source_entry(table["hand_force_quasi_static"]), source_entry(table["hand_energy_transient"])])
 
 

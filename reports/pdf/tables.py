@@ -11,6 +11,7 @@ from __future__ import annotations
 from reportlab.lib.units import mm
 from reportlab.platypus import KeepTogether
 
+from hazards.findings import snap_text
 from hazards.grouping import name_parts
 from reports.collapse import collapse_rows
 from reports.pdf.formatting import key_label, number, quantity, value_text
@@ -102,7 +103,8 @@ def pair_table(inputs: ReportInputs, s: Styles) -> list:
         rows.append(([p.magnet_id, p.other_id],
                      [f"({p.other_kind.replace('_', ' ')}), {approach}", quantity(p.force_at_contact_N, "N") + upper,
                       f"{quantity(p.force_at_finger_gap_N, 'N')} at {quantity(p.finger_gap_m, 'm')}",
-                      quantity(p.snap_distance_hand_m, "m"), quantity(p.snap_distance_bench_m, "m"),
+                      snap_text(p.snap_distance_hand_m, quantity(p.snap_distance_hand_m, "m")),
+                      snap_text(p.snap_distance_bench_m, quantity(p.snap_distance_bench_m, "m")),
                       quantity(p.pinch_energy_J, "J"), quantity(p.impact_speed_m_per_s, "m/s")]))
     cells, merged = _collapsed_cells(rows, lambda row: [_pair_names(row)])
     cells = [[f"{cell[0]} {cell[1]}"] + cell[2:] for cell in cells]     # the pair and its approach share a cell

@@ -187,3 +187,11 @@ def test_no_pinch_energy_is_said_in_words_when_the_parts_jump_only_inside_the_fi
     assert figures["impact speed"].startswith("none")
     sliding = dict(_pinch(approach="sliding_on_bench")["pinch.handling.disc.disc2"].figures)
     assert sliding["energy released onto the finger, approach sliding on the bench"] == "50 mJ"
+
+
+def test_a_pair_that_never_jumps_together_says_none_not_zero():
+    # snap distance 0: the attraction stays below the grip at every gap (physics: snap_distance);
+    # the figure reads "none" rather than "0 m"
+    figures = dict(_pinch(snap_distance_hand_m=0.0, snap_distance_bench_m=0.03)["pinch.handling.disc.disc2"].figures)
+    assert figures["snap distance held in the hand"] == "none"
+    assert figures["snap distance sliding on the bench"] == "30 mm"

@@ -124,7 +124,7 @@ def terms_needed(ratio: float, tolerance: float = SERIES_TOLERANCE) -> int:
     Examples
     --------
     >>> terms_needed(0.1)
-    12
+    14
     """
     if not 0.0 <= ratio < 1.0:
         raise ValueError(f"the series needs points beyond the bounding sphere; R/r = {ratio}")

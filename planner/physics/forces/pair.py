@@ -140,6 +140,52 @@ def _parallel_cuboids(target, source):
     return source.rotation @ in_source_frame, symmetric
 
 
+def field_gradient(body: MagnetBody, point, step: float) -> tuple[np.ndarray, np.ndarray]:
+    """B and its Jacobian dB_l/dx_j of ``body`` at ``point`` (global frame) [T], [T/m].
+
+    Fourth-order central differences, B'(x) = [8 (B(x+h) - B(x-h)) - (B(x+2h) - B(x-2h))] / 12h
+    (Abramowitz & Stegun 25.3.6), all twelve points in one field call. ``step`` h [m]
+    should be about 1e-2 of the distance from ``point`` to the body: the truncation error
+    is then about h^4/30 of the fifth derivative, some 1e-10 of the gradient, and the
+    rounding error about 1e-14 of it.
+    """
+    from planner.physics.fields import field_of_body  # fields is a sibling package
+
+    offsets = np.concatenate([np.eye(3) * h for h in (step, -step, 2 * step, -2 * step)])
+    values = field_of_body(body, np.vstack([point, point + offsets])).reshape(-1, 3)
+    centre, plus, minus, plus2, minus2 = values[0], values[1:4], values[4:7], values[7:10], values[10:13]
+    jacobian = (8.0 * (plus - minus) - (plus2 - minus2)) / (12.0 * step)  # row j: dB/dx_j
+    return centre, jacobian
+
+
+def _sphere_pair(target: MagnetBody, source: MagnetBody):
+    """Exact force and torque on ``target`` when either body is a sphere, else None.
+
+    A uniformly magnetized sphere in a field B that has no sources inside it has the
+    interaction energy U = -m . B(c): U = -M . integral B dV and, B being harmonic in the
+    ball, its volume integral is V B(c) (mean-value property). Hence, on the sphere,
+    F = grad(m . B)(c) = (m . grad) B(c) (curl B = 0 there) and T = m x B(c) about its
+    centre; the other body takes -F and, about its own centre, -T - (c_sphere - c_other) x F.
+    The gradient is a fourth-order central difference of the other body's exact field
+    (:func:`field_gradient`), with steps of 1e-2 of the sphere's radius (the other body's
+    material is at least that radius away from the sphere's centre).
+    """
+    if target.shape == "sphere":
+        sphere, other, sign = target, source, 1.0
+    elif source.shape == "sphere":
+        sphere, other, sign = source, target, -1.0
+    else:
+        return None
+    field, jacobian = field_gradient(other, sphere.center, 1e-2 * sphere.diameter / 2)
+    moment = sphere.moment
+    force = moment @ jacobian  # (m . grad) B: row j of the Jacobian is dB/dx_j
+    torque = np.cross(moment, field)
+    if sign > 0:
+        return force, torque
+    lever = sphere.center - other.center
+    return -force, -torque - np.cross(lever, force)
+
+
 def _mean_width_across(body: MagnetBody, line) -> float:
     """Mean half-width of ``body`` over the directions normal to ``line`` [m]."""
     e1 = rotation_from_axis(line)
@@ -214,8 +260,9 @@ def force_between(target: MagnetBody, source: MagnetBody, rtol: float = 1e-3) ->
     -----
     Coaxial, axially magnetized cylinders and rings: Vokoun et al. (2009). Cuboids with
     parallel edges both magnetized along the same edge direction: Akoun & Yonnet (1984).
-    Anything else: the charge-model quadrature over the narrower body's faces,
-    :func:`charges_on_narrower_body`.
+    A sphere and any other body: the force on a point dipole at the sphere's centre, exact
+    by the mean-value property (:func:`_sphere_pair`). Anything else: the charge-model
+    quadrature over the narrower body's faces, :func:`charges_on_narrower_body`.
 
     References
     ----------
@@ -228,6 +275,9 @@ def force_between(target: MagnetBody, source: MagnetBody, rtol: float = 1e-3) ->
     cuboids = _parallel_cuboids(target, source)
     if cuboids is not None:
         return cuboids[0]
+    sphere = _sphere_pair(target, source)
+    if sphere is not None:
+        return sphere[0]
     return charges_on_narrower_body(target, source, rtol=rtol, need_torque=False)[0]
 
 
@@ -249,7 +299,8 @@ def force_and_torque(target: MagnetBody, source: MagnetBody,
     Notes
     -----
     The exact fast paths are taken where the torque vanishes by symmetry (coaxial cylinders
-    and rings; parallel cuboids whose centres lie on a line along a common edge direction);
+    and rings; parallel cuboids whose centres lie on a line along a common edge direction)
+    and where one body is a sphere (point dipole at its centre, :func:`_sphere_pair`);
     otherwise the charge-model quadrature over the narrower body gives both
     (:func:`charges_on_narrower_body`).
 
@@ -263,6 +314,9 @@ def force_and_torque(target: MagnetBody, source: MagnetBody,
     cuboids = _parallel_cuboids(target, source)
     if cuboids is not None and cuboids[1]:
         return cuboids[0], np.zeros(3)
+    sphere = _sphere_pair(target, source)
+    if sphere is not None:
+        return sphere
     return charges_on_narrower_body(target, source, rtol=rtol)
 
 
@@ -286,11 +340,19 @@ def energy_between(target: MagnetBody, source: MagnetBody, rtol: float = 1e-6) -
     U = -integral_V1 M_1 . B_2 dV = -integral_V2 M_2 . B_1 dV (reciprocity), so the volume
     integral is taken over the body with the smaller mean half-width across the line of
     centres, where the other's field is smooth (see :func:`charges_on_narrower_body`).
+    If either body is a sphere, U = -m_sphere . B_other(c_sphere) exactly (mean-value
+    property of the harmonic B_other in the ball).
 
     References
     ----------
     Jackson (1999), sec. 5.7 (energy of a magnetization in an external field).
     """
+    if target.shape == "sphere" or source.shape == "sphere":
+        # exact: U = -m . B_other(c) for the sphere (mean-value property, see _sphere_pair)
+        sphere, other = (target, source) if target.shape == "sphere" else (source, target)
+        from planner.physics.fields import field_of_body  # fields is a sibling package
+
+        return float(-sphere.moment @ field_of_body(other, sphere.center))
     lever = source.center - target.center
     if np.linalg.norm(lever) > 0 and \
             _mean_width_across(target, lever) > _mean_width_across(source, lever):

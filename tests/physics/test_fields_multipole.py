@@ -149,3 +149,30 @@ def test_zonal_moments_against_direct_integration(shape):
     for index, degree in enumerate(range(0, 21, 2)):
         direct = np.sum(W * r**degree * legendre.legval(Z / r, np.eye(degree + 1)[degree])) / (4 * np.pi)
         assert ours[index] == pytest.approx(direct, rel=1e-10, abs=1e-13 * ours[0] * np.hypot(radius, half) ** degree)
+
+
+def test_derivative_bound_factors_are_the_stated_series():
+    # independent computation: S_n(q) = sum over even l of mu_l C(n+2+l, l) q^l summed
+    # term by term (math.comb; the moments from zonal_moments, checked against direct
+    # quadrature above) at points between the grid nodes: the table's value at the next
+    # node up is never below it, and at a node it equals the sum to rounding (the moments'
+    # rounding bound is tiny there)
+    from math import comb
+
+    from planner.physics.fields.multipole import derivative_bound_factors
+
+    radius, bore, half = SHAPES["flat disc"]
+    table = derivative_bound_factors(radius, bore, half, max_ratio=0.85, cells=512)
+    reach = np.hypot(radius, half)
+    moments = np.abs(zonal_moments(radius, bore, half, 100)) / (zonal_moments(radius, bore, half, 0)[0]
+                                                                * reach ** np.arange(0, 101, 2))
+    for q in (0.1, 0.4, 0.7, 0.84):
+        cell = int(np.ceil(q / 0.85 * 512))
+        for order in range(4):
+            direct = sum(moments[j] * comb(order + 2 + 2 * j, 2 * j) * q ** (2 * j) for j in range(51))
+            direct += sum(comb(order + 2 + l, l) * q**l for l in range(102, 700, 2))
+            assert table[order, cell] >= direct
+            node = 0.85 * cell / 512
+            at_node = sum(moments[j] * comb(order + 2 + 2 * j, 2 * j) * node ** (2 * j) for j in range(51)) \
+                + sum(comb(order + 2 + l, l) * node**l for l in range(102, 700, 2))
+            assert table[order, cell] == pytest.approx(at_node, rel=1e-9)

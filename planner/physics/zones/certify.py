@@ -29,7 +29,8 @@ is bounded by (eps^2 / 6) sqrt(3) L3 (Taylor remainder), plus the error of the f
 Derivative bounds of order n for one body (``bounds.derivative_bounds``; (n+2)! from the Legendre
 expansion, the surface-charge forms from integrating 1/r^(n+2) over a plane or a cylinder):
 volume form (n+2)! k m / e^(n+3); surface form (n+1)!/(2n) A / D^n + (n+1)! b_n / 4 C / D^(n+1),
-b_1 = 2, b_2 = pi/2, b_3 = 4/3; the smaller of the two is used. Here D is the distance to the
+b_1 = 2, b_2 = pi/2, b_3 = 4/3; for cylinders and rings also the multipole-series form
+(n+2)! k m S_n(a/d) / d^(n+3) (``zones.bounds``); the smallest is used. Here D is the distance to the
 solid and e = D for every shape but the sphere, e = d for a sphere (its outside field is
 exactly a dipole's at the centre). The volume form with e = D holds because outside the
 body B is the superposition of the fields of the volume elements M dV, each a point dipole
@@ -66,7 +67,7 @@ def _split_far(geometry, widest, centre_bounds, ratio=10.0):
     ball centres (:func:`derivative_bounds` with ``per_body``, spread 0), which do not
     depend on ``widest`` and so are computed once per set of points by the caller.
     """
-    centre_distance, solid_distance, moments, reach, shift, flat, curved = geometry
+    centre_distance, solid_distance, moments, reach, shift, flat, curved, series_row, series = geometry
     far = solid_distance >= ratio * widest[:, None]
     only_far = (centre_distance, np.where(far, solid_distance, np.inf)) + tuple(geometry[2:])
     at_centre = tuple(np.sum(np.where(far, per_pair, 0.0), axis=1) for per_pair in centre_bounds)
@@ -82,7 +83,8 @@ def _split_far(geometry, widest, centre_bounds, ratio=10.0):
         return np.where(keep, np.take_along_axis(values, order, axis=1), empty)
 
     near = (gather(centre_distance, np.inf), gather(solid_distance, np.inf), gather(moments, 0.0),
-            gather(reach, 0.0), gather(shift, 0.0), gather(flat, 0.0), gather(curved, 0.0))
+            gather(reach, 0.0), gather(shift, 0.0), gather(flat, 0.0), gather(curved, 0.0),
+            gather(series_row, -1.0), series)
     return near, at_centre, at_widest, nearest_far
 
 
@@ -210,7 +212,9 @@ def certified_depth(bodies, points, axes, radii, half_angles, threshold, allowed
         # (A NaN compares False: nothing is proven from it.)
         return (np.nan_to_num(bound, nan=np.inf) <= limit) | (largest <= level)
 
-    centre_bounds = derivative_bounds(geometry, np.zeros(len(points)), (1, 2), per_body=True)
+    # grown to each ball by _split_far's factor, which the series form does not obey
+    centre_bounds = derivative_bounds(geometry, np.zeros(len(points)), (1, 2), per_body=True,
+                                      series_form=False)
 
     def split(largest):
         return _split_far(geometry, np.hypot(largest + bulge, across_reach), centre_bounds)

@@ -17,12 +17,11 @@ from functools import lru_cache
 from importlib import resources
 
 import yaml
-from scipy.constants import mu_0
 
 from planner.assessment import Threshold
 from planner.setup import Problem, SetupError
 from planner.setup.model import SiteRules
-from planner.units import UnitError, to_si
+from planner.units import UnitError, mu_0, to_si
 
 __all__ = ["ThresholdRow", "load_thresholds", "effective_thresholds", "parse_threshold_value",
            "CONFIRM_NOTE", "SI_UNITS"]

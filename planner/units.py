@@ -35,7 +35,10 @@ from functools import lru_cache
 
 import pint
 
-__all__ = ["UnitError", "KINDS", "to_si", "is_quantity_text", "vector_to_si", "MICRO_ASCII", "MICRO_SIGN",
+from planner.physics.constants import mu_0  # the hazard rules convert A/m to T with it
+
+
+__all__ = ["mu_0", "UnitError", "KINDS", "to_si", "is_quantity_text", "vector_to_si", "MICRO_ASCII", "MICRO_SIGN",
            "SI_PREFIXES", "format_number", "format_quantity", "format_flux_density"]
 
 

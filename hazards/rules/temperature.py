@@ -2,10 +2,9 @@
 temperature, and repelling arrangements against coercivity."""
 from __future__ import annotations
 
-from scipy.constants import mu_0
-
 from hazards.findings import ACTION, NOTE, Finding, is_number, show, show_field
 from hazards.rules.common import activities_of, items, magnet_figures_by_id
+from planner.units import mu_0
 
 CONCERN = "temperature"
 

@@ -15,12 +15,12 @@ from __future__ import annotations
 from dataclasses import replace
 
 import numpy as np
-from scipy.constants import mu_0
 
 from planner import materials
 from planner.assessment import PairFigures, ProjectileFigures
 from planner.calculations.magnets import pole_area
 from planner.physics.bodies import MagnetBody, rotation_about, rotation_from_axis
+from planner.physics.constants import mu_0
 from planner.physics.fields import field_of_bodies
 from planner.physics.forces import extent_along, plate_saturation_check
 from planner.physics.handling import (DEFAULT_FINGER_GAP, DEFAULT_HAND_FORCE, DEFAULT_STATIC_FRICTION,

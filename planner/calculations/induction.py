@@ -14,12 +14,12 @@ Phys. 41, 2067 (1970); physics.md sections 4 and 5. Copper resistivity 1.68e-8 o
 from __future__ import annotations
 
 import numpy as np
-from scipy.constants import g as STANDARD_GRAVITY
 
 from planner import materials
 from planner.assessment import InductionFigures
 from planner.physics import eddy
 from planner.physics.bodies import MagnetBody
+from planner.physics.constants import STANDARD_GRAVITY
 from planner.physics.forces import extent_along
 from planner.physics.induction import (Winding, alternating_induced_emf, axial_magnet, body_flux_linkage,
                                        circuit_current, coil_mutual_inductance, coupling_coefficient,

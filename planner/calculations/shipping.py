@@ -9,9 +9,9 @@ Dipole field on the axis, B = mu0 2 m / (4 pi r^3) (Jackson, Classical Electrody
 from __future__ import annotations
 
 import numpy as np
-from scipy.constants import mu_0
 
 from planner.assessment import ShippingFigures
+from planner.physics.constants import mu_0
 from planner.setup import Setup
 from planner.setup.geometry import body_of
 

@@ -1,4 +1,4 @@
-"""Pure physics: numpy/scipy functions on SI floats and arrays. No I/O, no setup types.
+"""Pure physics: numpy functions on SI floats and arrays. No I/O, no setup types.
 
 References: see each module's docstring and ../shared/reference/physics.md.
 """

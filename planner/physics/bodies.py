@@ -23,7 +23,8 @@ import math
 from dataclasses import dataclass, field
 
 import numpy as np
-from scipy.constants import mu_0
+
+from planner.physics.constants import mu_0
 
 SHAPES = ("cylinder", "ring", "block", "sphere")
 

@@ -35,9 +35,8 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 import numpy as np
-from scipy.constants import g as standard_gravity
-from scipy.constants import mu_0
 
+from planner.physics.constants import mu_0, STANDARD_GRAVITY as standard_gravity
 from planner.physics.gauss import gauss_legendre
 from planner.physics.induction.magnet_flux import AxialMagnet, loop_flux, radial_field
 from planner.physics.roots import bracketed_root

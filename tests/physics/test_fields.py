@@ -330,3 +330,39 @@ def test_round_off_across_the_axis_is_dropped_but_real_components_are_kept():
                       - field_function(local, *size, [0.0, 0.0, 1.3]))
         np.testing.assert_allclose(difference, field_function(local, *size, [1e-9 * 1.3, 0, 0]),
                                    rtol=1e-4, atol=1e-15)  # 1e-15 T: round-off of B ~ 0.1 T
+
+
+def test_legendre_k_and_e_match_published_values_and_cephes():
+    # Abramowitz & Stegun Table 17.1: K(1/2) = 1.8540746773, E(1/2) = 1.3506438810; and
+    # scipy.special.ellipk / ellipe (Cephes, test-only here) over the whole range of m,
+    # up to m = 1 - 1e-12, where kc is given directly
+    from scipy.special import ellipe, ellipk
+
+    from planner.physics.fields.elliptic import legendre_k_and_e
+
+    K, E = legendre_k_and_e(np.sqrt(0.5))
+    assert float(K) == pytest.approx(1.8540746773, abs=1e-10)
+    assert float(E) == pytest.approx(1.3506438810, abs=1e-10)
+    m = np.concatenate([np.linspace(0.0, 0.999, 500), 1.0 - np.logspace(-12, -3, 50)])
+    K, E = legendre_k_and_e(np.sqrt(1.0 - m))
+    np.testing.assert_allclose(K, ellipk(m), rtol=1e-13)
+    np.testing.assert_allclose(E, ellipe(m), rtol=1e-13)
+    K, E = legendre_k_and_e(0.0)
+    assert np.isinf(K) and E == 1.0
+
+
+def test_carlson_rd_matches_its_identities_and_scipy():
+    # DLMF 19.20.2: R_D(x, x, x) = x^(-3/2); 19.20.1 with the lemniscate constant:
+    # R_D(0, 2, 1) = 3 Gamma(3/4)^2 / sqrt(2 pi) (= 1.7972103521...); and scipy.special.elliprd
+    # (test-only) at random arguments over six decades
+    from math import gamma, pi, sqrt
+
+    from scipy.special import elliprd
+
+    from planner.physics.fields.elliptic import carlson_rd
+
+    assert carlson_rd(4.0, 4.0, 4.0) == pytest.approx(4.0 ** -1.5, rel=1e-15)
+    assert carlson_rd(0.0, 2.0, 1.0) == pytest.approx(3 * gamma(0.75) ** 2 / sqrt(2 * pi), rel=1e-14)
+    rng = np.random.default_rng(4)
+    for x, y, z in rng.random((300, 3)) * 10.0 ** rng.uniform(-3, 3, (300, 3)):
+        assert carlson_rd(x, y, z) == pytest.approx(elliprd(x, y, z), rel=1e-14)

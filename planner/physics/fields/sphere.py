@@ -3,8 +3,8 @@
 from __future__ import annotations
 
 import numpy as np
-from scipy.constants import mu_0
 
+from planner.physics.constants import mu_0
 from planner.physics.fields.chunking import in_blocks
 
 

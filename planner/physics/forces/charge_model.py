@@ -22,9 +22,9 @@ from __future__ import annotations
 import math
 
 import numpy as np
-from scipy.constants import mu_0
 
 from planner.physics.bodies import MagnetBody
+from planner.physics.constants import mu_0
 from planner.physics.forces.face_rules import (INTERVAL_POINTS, field_in_frame_of,
                                                first_pass_size, whole_face_rule)
 from planner.physics.forces.quadrature import adaptive_box_integral

@@ -12,8 +12,8 @@ sec. 11.2 (Neumann's addition theorem) and 13.2 (Lipschitz' integral).
 from __future__ import annotations
 
 import numpy as np
-from scipy.constants import mu_0
 
+from planner.physics.constants import mu_0
 from planner.physics.gauss import gauss_legendre
 
 
@@ -111,7 +111,7 @@ def coaxial_cylinders_axial_force(outer_radius_1, inner_radius_1, length_1, pola
 
     Examples
     --------
-    >>> from scipy.constants import mu_0
+    >>> from planner.physics.constants import mu_0
     >>> r, L, d = 1e-3, 1e-3, 0.5  # far apart: the dipole limit
     >>> m = 1.0 * np.pi * r**2 * L / mu_0
     >>> exact = coaxial_cylinders_axial_force(r, 0, L, 1.0, r, 0, L, 1.0, d)

@@ -22,8 +22,8 @@ from __future__ import annotations
 from dataclasses import dataclass, replace
 
 import numpy as np
-from scipy.constants import g as STANDARD_GRAVITY
 
+from planner.physics.constants import STANDARD_GRAVITY
 from planner.physics.gauss import gauss_legendre
 from planner.physics.bodies import MagnetBody, rotation_about, rotation_from_axis
 from planner.physics.forces import (energy_between, extent_along, force_and_torque,

@@ -19,12 +19,11 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 import numpy as np
-from scipy.constants import g as STANDARD_GRAVITY
-from scipy.constants import mu_0
-from scipy.special import elliprd
 
 from planner.physics.bodies import MagnetBody
+from planner.physics.constants import mu_0, STANDARD_GRAVITY
 from planner.physics.forces import extent_along
+from planner.physics.fields.elliptic import carlson_rd
 from planner.physics.handling.pinch import DEFAULT_STATIC_FRICTION
 from planner.physics.handling.search import largest_exceeding
 
@@ -86,7 +85,7 @@ def demagnetizing_factor(semi_axis_along: float, semi_axis_2: float, semi_axis_3
     0.333333333333
     """
     a, b, c = semi_axis_along, semi_axis_2, semi_axis_3
-    return float(a * b * c / 3 * elliprd(b * b, c * c, a * a))
+    return float(a * b * c / 3 * carlson_rd(b * b, c * c, a * a))
 
 
 def steel_sphere(diameter: float, density: float = STEEL_DENSITY,

@@ -13,9 +13,9 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 import numpy as np
-from scipy.constants import inch, mu_0
-from scipy.special import ellipe, ellipk
 
+from planner.physics.constants import INCH as inch, mu_0
+from planner.physics.fields.elliptic import legendre_k_and_e
 from planner.physics.gauss import gauss_legendre
 
 from .sheets import coaxial_sheet_mutual_inductance
@@ -167,10 +167,11 @@ def nagaoka_coefficient(diameter_over_length):
     """
     ratio = np.asarray(diameter_over_length, dtype=float)
     m = ratio**2 / (1.0 + ratio**2)
-    k, kp = np.sqrt(m), np.sqrt(1.0 - m)
+    k, kp = np.sqrt(m), 1.0 / np.sqrt(1.0 + ratio**2)
+    complete_k, complete_e = legendre_k_and_e(kp)
     with np.errstate(divide="ignore", invalid="ignore"):
         value = 4.0 / (3.0 * np.pi * kp) * (
-            (1.0 - m) / m * (ellipk(m) - ellipe(m)) + ellipe(m) - k)
+            (1.0 - m) / m * (complete_k - complete_e) + complete_e - k)
     return np.where(ratio > 0.0, value, 1.0)
 
 

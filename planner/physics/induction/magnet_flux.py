@@ -18,8 +18,8 @@ from __future__ import annotations
 from typing import NamedTuple
 
 import numpy as np
-from scipy.constants import mu_0
 
+from planner.physics.constants import mu_0
 from planner.physics.gauss import gauss_legendre
 from planner.physics.bodies import rotation_from_axis
 
@@ -103,7 +103,7 @@ def dipole_loop_flux(moment, loop_radius, distance):
     ----------
     Jackson, Classical Electrodynamics, 3rd ed., eq. 5.55 (1999).
 
-    >>> from scipy.constants import mu_0
+    >>> from planner.physics.constants import mu_0
     >>> round(float(dipole_loop_flux(1.0, 0.01, 0.0) / (mu_0 / 0.02)), 12)
     1.0
     """

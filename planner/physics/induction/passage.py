@@ -21,8 +21,8 @@ from dataclasses import dataclass
 from itertools import accumulate
 
 import numpy as np
-from scipy.constants import g as standard_gravity
 
+from planner.physics.constants import STANDARD_GRAVITY as standard_gravity
 from planner.physics.gauss import gauss_legendre
 from planner.physics.bodies import rotation_from_axis
 

@@ -29,10 +29,9 @@ R. Bulirsch, Numer. Math. 13, 305-315 (1969) (cel).
 from __future__ import annotations
 
 import numpy as np
-from scipy.constants import mu_0
-from scipy.special import ellipe, ellipkm1
 
-from planner.physics.fields.elliptic import complete_elliptic_integrals
+from planner.physics.constants import mu_0
+from planner.physics.fields.elliptic import complete_elliptic_integrals, legendre_k_and_e
 from planner.physics.gauss import gauss_legendre
 
 from .loops import elliptic_psi_over_k
@@ -48,8 +47,9 @@ def _cel_zero_one(kc, p):
 def _k_minus_e_over_m(m, kc2):
     """``(K(m) - E(m)) / m`` without cancellation; ``kc2 = 1 - m`` given exactly [-]."""
     small = m < 1e-3
+    complete_k, complete_e = legendre_k_and_e(np.sqrt(kc2))
     with np.errstate(divide="ignore", invalid="ignore"):
-        direct = (ellipkm1(kc2) - ellipe(m)) / m
+        direct = (complete_k - complete_e) / m
     series = np.pi / 4.0 * (1.0 + m * (3.0 / 8.0 + m * (15.0 / 64.0 + m * 175.0 / 1024.0)))
     return np.where(small, series, direct)
 
@@ -102,7 +102,7 @@ def sheet_flux(sheet_radius, loop_radius, start_offset, end_offset, surface_curr
     ----------
     Derby & Olbert, Am. J. Phys. 78, 229 (2010); derivation in the module docstring [D].
 
-    >>> from scipy.constants import mu_0
+    >>> from planner.physics.constants import mu_0
     >>> flux = sheet_flux(0.01, 0.005, -100.0, 100.0, 1.0 / mu_0)   # long sheet, B = 1 T
     >>> round(float(flux / (np.pi * 0.005**2)), 6)
     1.0

@@ -44,9 +44,9 @@ from __future__ import annotations
 from math import factorial, pi
 
 import numpy as np
-from scipy.constants import mu_0
 
 from planner.physics.bodies import distance_to_body
+from planner.physics.constants import mu_0
 
 K = mu_0 / (4 * np.pi)
 # b_n of the curved-face term of the near-field derivative bounds (see derivative_bounds)

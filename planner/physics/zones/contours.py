@@ -21,8 +21,8 @@ from __future__ import annotations
 
 import numpy as np
 from contourpy import LineType, contour_generator
-from scipy.constants import mu_0
 
+from planner.physics.constants import mu_0
 from planner.physics.zones.bounds import field_with_error
 from planner.physics.zones.refine import INSIDE_VALUE, VIEWS, plane_points, refined_plane_grid
 

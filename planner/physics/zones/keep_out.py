@@ -439,7 +439,7 @@ def keep_out_radius(bodies: list[MagnetBody], index: int, threshold: float) -> f
     --------
     >>> from planner.physics.bodies import MagnetBody
     >>> ball = MagnetBody("sphere", [0, 0, 0], np.eye(3), [0, 0, 1.2], diameter=0.01)
-    >>> from scipy.constants import mu_0
+    >>> from planner.physics.constants import mu_0
     >>> exact = (mu_0 / (2 * np.pi) * float(np.linalg.norm(ball.moment)) / 1e-3) ** (1 / 3)
     >>> r = keep_out_radius([ball], 0, 1e-3)
     >>> bool(exact <= r <= 1.05 * exact)

@@ -21,7 +21,6 @@ from planner.physics.fields import (
     dipole_field,
     field_of_bodies,
     field_of_body,
-    ring_field,
     sphere_field,
 )
 from planner.physics.fields.elliptic import complete_elliptic_integrals

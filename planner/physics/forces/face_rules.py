@@ -234,8 +234,8 @@ def field_in_frame_of(target: MagnetBody, source: MagnetBody, field=None):
     J = source.rotation.T @ source.polarization
     series_ratio = _series_ratio(target, source, math.sqrt(apart @ apart))
     if series_ratio is not None:
-        moments = cached_zonal_moments(source.diameter / 2, source.inner_diameter / 2,
-                                       source.height / 2, terms_needed(series_ratio))
+        shape = (source.diameter / 2, source.inner_diameter / 2, source.height / 2)
+        moments = cached_zonal_moments(*shape, terms_needed(series_ratio, shape=shape))
         radius = source.bounding_radius
 
         def closed_form(q):

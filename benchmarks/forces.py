@@ -18,13 +18,13 @@ magpylib's taken alternately so that a load on the machine weighs on both alike;
 ratios are steadier than the absolute times.
 Then the exact fast paths (coaxial cylinders, parallel cuboids) are timed.
 
-Measured on the 2-core development machine (December 2026), two runs: every case takes one
+Measured on the 2-core development machine (December 2026), four runs: every case takes one
 field call; ours 0.10-0.24 ms with force errors 1e-14..6e-5 at rtol 1e-3; 14-37x faster
 than magpylib where it needs 300-1000 cells (coaxial and offset at 1 and 5 mm) and
-10.7-14.3x at 20 mm, where the source's multipole series replaces its closed form. Below
-10x: the tilted target at 1 mm (7.0-8.7x) and 5 mm (8.1x), where magpylib needs only 30-100
-cells (1.2-2.1 ms) and the closed form, about 0.12-0.16 ms of fixed numpy cost per call
-whatever the number of nodes, caps the speed-up near 10x (cap column).
+10.3-14.3x at 20 mm, where the source's multipole series replaces its closed form. Below
+10x: the tilted target at 1 mm (7.0-8.7x) and 5 mm (7.4-9.0x), where magpylib needs only
+30-100 cells (1.06-2.1 ms) and the closed-form field call alone, mostly fixed numpy cost
+whatever the number of nodes, takes about a tenth of that (cap column).
 """
 from __future__ import annotations
 

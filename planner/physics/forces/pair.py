@@ -14,6 +14,7 @@ from dataclasses import replace
 import numpy as np
 
 from planner.physics.bodies import MagnetBody, rotation_from_axis
+from planner.physics.fields import field_and_jacobian, field_of_body
 from planner.physics.forces.charge_model import force_and_torque_by_charges, interaction_energy
 from planner.physics.forces.closed_forms import (coaxial_cylinders_axial_force,
                                                  parallel_cuboids_force)
@@ -140,24 +141,6 @@ def _parallel_cuboids(target, source):
     return source.rotation @ in_source_frame, symmetric
 
 
-def field_gradient(body: MagnetBody, point, step: float) -> tuple[np.ndarray, np.ndarray]:
-    """B and its Jacobian dB_l/dx_j of ``body`` at ``point`` (global frame) [T], [T/m].
-
-    Fourth-order central differences, B'(x) = [8 (B(x+h) - B(x-h)) - (B(x+2h) - B(x-2h))] / 12h
-    (Abramowitz & Stegun 25.3.6), all twelve points in one field call. ``step`` h [m]
-    should be about 1e-2 of the distance from ``point`` to the body: the truncation error
-    is then about h^4/30 of the fifth derivative, some 1e-10 of the gradient, and the
-    rounding error about 1e-14 of it.
-    """
-    from planner.physics.fields import field_of_body  # fields is a sibling package
-
-    offsets = np.concatenate([np.eye(3) * h for h in (step, -step, 2 * step, -2 * step)])
-    values = field_of_body(body, np.vstack([point, point + offsets])).reshape(-1, 3)
-    centre, plus, minus, plus2, minus2 = values[0], values[1:4], values[4:7], values[7:10], values[10:13]
-    jacobian = (8.0 * (plus - minus) - (plus2 - minus2)) / (12.0 * step)  # row j: dB/dx_j
-    return centre, jacobian
-
-
 def _sphere_pair(target: MagnetBody, source: MagnetBody):
     """Exact force and torque on ``target`` when either body is a sphere, else None.
 
@@ -167,7 +150,7 @@ def _sphere_pair(target: MagnetBody, source: MagnetBody):
     F = grad(m . B)(c) = (m . grad) B(c) (curl B = 0 there) and T = m x B(c) about its
     centre; the other body takes -F and, about its own centre, -T - (c_sphere - c_other) x F.
     The gradient is a fourth-order central difference of the other body's exact field
-    (:func:`field_gradient`), with steps of 1e-2 of the sphere's radius (the other body's
+    (:func:`planner.physics.fields.field_and_jacobian`), with steps of 1e-2 of the sphere's radius (the other body's
     material is at least that radius away from the sphere's centre).
     """
     if target.shape == "sphere":
@@ -176,7 +159,7 @@ def _sphere_pair(target: MagnetBody, source: MagnetBody):
         sphere, other, sign = source, target, -1.0
     else:
         return None
-    field, jacobian = field_gradient(other, sphere.center, 1e-2 * sphere.diameter / 2)
+    field, jacobian = field_and_jacobian(other, sphere.center, 1e-2 * sphere.diameter / 2)
     moment = sphere.moment
     force = moment @ jacobian  # (m . grad) B: row j of the Jacobian is dB/dx_j
     torque = np.cross(moment, field)
@@ -350,8 +333,6 @@ def energy_between(target: MagnetBody, source: MagnetBody, rtol: float = 1e-6) -
     if target.shape == "sphere" or source.shape == "sphere":
         # exact: U = -m . B_other(c) for the sphere (mean-value property, see _sphere_pair)
         sphere, other = (target, source) if target.shape == "sphere" else (source, target)
-        from planner.physics.fields import field_of_body  # fields is a sibling package
-
         return float(-sphere.moment @ field_of_body(other, sphere.center))
     lever = source.center - target.center
     if np.linalg.norm(lever) > 0 and \

@@ -15,10 +15,10 @@ def dipole_field(points, moment, position):
     ----------
     points : array (n, 3) or (3,)
         Field points [m].
-    moment : array (3,)
-        Dipole moment m [A m^2].
-    position : array (3,)
-        Location of the dipole [m].
+    moment : array (3,) or (n, 3)
+        Dipole moment m [A m^2], one for all points or one per point.
+    position : array (3,) or (n, 3)
+        Location of the dipole [m], one for all points or one per point.
 
     Returns
     -------
@@ -42,13 +42,15 @@ def dipole_field(points, moment, position):
     2.0
     """
     points = np.asarray(points, dtype=float)
-    relative = points.reshape(-1, 3) - np.asarray(position, dtype=float).reshape(3)
-    moment = np.asarray(moment, dtype=float).reshape(3)
+    relative = points.reshape(-1, 3) - np.asarray(position, dtype=float).reshape(-1, 3)
+    moment = np.asarray(moment, dtype=float)
     distance_squared = np.einsum("ij,ij->i", relative, relative)
+    along = relative @ moment if moment.ndim == 1 else np.einsum("ij,ij->i", relative, moment)
     with np.errstate(divide="ignore", invalid="ignore"):
-        inverse_cube = np.where(distance_squared > 0, distance_squared, np.nan) ** -1.5
-        projection = (relative @ moment) / distance_squared
-    field = (3.0 * projection[:, None] * relative - moment) * (mu_0 / (4 * np.pi) * inverse_cube)[:, None]
+        inverse_square = 1.0 / np.where(distance_squared > 0, distance_squared, np.nan)
+        scale = mu_0 / (4 * np.pi) * inverse_square * np.sqrt(inverse_square)
+        along *= 3.0 * inverse_square
+    field = (along[:, None] * relative - moment) * scale[:, None]
     return field.reshape(points.shape)
 
 

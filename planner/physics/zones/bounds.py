@@ -46,6 +46,7 @@ from math import factorial, pi
 import numpy as np
 
 from planner.physics.bodies import distance_to_body
+from planner.physics.fields.sphere import dipole_field
 from planner.physics.constants import mu_0
 
 K = mu_0 / (4 * np.pi)
@@ -218,8 +219,7 @@ def model_field(bodies, points, far, table=None):
             column = far[:, i]
             subset = None if column.all() else np.flatnonzero(column)
             at = points if subset is None else points[subset]
-            offset = at - table.centres[i]
-            field = _dipole_at_offsets(offset, table.vectors[i])
+            field = dipole_field(at, table.vectors[i], table.centres[i])
             if subset is None:
                 total += field
             else:
@@ -239,22 +239,11 @@ def model_field(bodies, points, far, table=None):
 _GATHER_PAIRS = 20000
 
 
-def _dipole_at_offsets(offset, moment):
-    """k (3 (m.r) r / r^5 - m / r^3) at offsets (n, 3) [m] from dipoles ``moment`` ((3,) or (n, 3))."""
-    square = np.einsum("ij,ij->i", offset, offset)
-    with np.errstate(invalid="ignore", divide="ignore"):
-        inverse = 1.0 / np.sqrt(square)
-        inverse_cube = K * inverse**3
-        along = 3 * (offset @ moment if np.ndim(moment) == 1 else np.einsum("ij,ij->i", offset, moment))
-        along *= inverse**2
-        return inverse_cube[:, None] * (offset * along[:, None] - moment)
-
-
 def _add_far_dipoles_gathered(total, points, far, table):
     """Add the far pairs' dipole fields to ``total``: gathered, then summed per point."""
     rows, columns = np.nonzero(far)
     if len(rows):
-        dipoles = _dipole_at_offsets(points[rows] - table.centres[columns], table.vectors[columns])
+        dipoles = dipole_field(points[rows], table.vectors[columns], table.centres[columns])
         for axis in range(3):
             total[:, axis] += np.bincount(rows, dipoles[:, axis], minlength=len(points))
 

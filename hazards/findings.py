@@ -131,16 +131,23 @@ def show_field(tesla) -> str:
     return format_flux_density(tesla) if is_number(tesla) else "not available"
 
 
-def snap_text(distance, formatted: str) -> str:
-    """A snap distance as printed: ``none`` where the parts never jump together, else ``formatted``.
+def approach_text(approach: str) -> str:
+    """How a pair is brought together, in words: ``held in the hand`` or ``sliding on the bench``."""
+    return "held in the hand" if approach == "hand" else "sliding on the bench"
+
+
+def none_if_zero(value, formatted: str) -> str:
+    """A handling figure as printed: ``none`` where it is exactly 0, else ``formatted``.
 
     A snap distance of 0 m means the attraction stays below the grip or the bench friction
-    at every gap: the parts only stick when put in contact, which "0 m" does not say.
+    at every gap (the parts only stick when put in contact); a pinch energy or impact speed
+    of exactly 0 means they jump together only inside the finger gap. "0 m" or "0 J" says
+    neither.
 
-    >>> snap_text(0.0, "0 m"), snap_text(0.03, "30 mm")
+    >>> none_if_zero(0.0, "0 m"), none_if_zero(0.03, "30 mm")
     ('none', '30 mm')
     """
-    return "none" if is_number(distance) and distance == 0 else formatted
+    return "none" if is_number(value) and value == 0 else formatted
 
 
 def show(value, kind: str) -> str:

@@ -10,7 +10,7 @@ from __future__ import annotations
 import textwrap
 
 from hazards.findings import (DEFERRAL, SEVERITIES, SEVERITY_MEANINGS, deferral_line, is_number, plain_number, show,
-                              snap_text,
+                              approach_text, none_if_zero,
                               show_field, threshold_text)
 from planner.units import MICRO_ASCII, format_quantity
 from reports.collapse import collapse_rows
@@ -180,11 +180,12 @@ def _pairs(out, assessment):
     for p in assessment.pairs:
         bound = " (upper bound)" if p.upper_bound else ""
         rows.append(([p.magnet_id, p.other_id],
-                     [p.approach, show(p.force_at_contact_N, "force") + bound, show(p.force_at_finger_gap_N, "force"),
-                      snap_text(p.snap_distance_bench_m, show(p.snap_distance_bench_m, "length")),
-                      snap_text(p.snap_distance_hand_m, show(p.snap_distance_hand_m, "length")),
-                      show(p.pinch_energy_J, "energy"), show(p.impact_speed_m_per_s, "speed")]))
-    _collapsed_table(out, ["pair", "by", "force at contact", "at finger gap", "snaps (bench)", "snaps (hand)",
+                     [approach_text(p.approach), show(p.force_at_contact_N, "force") + bound, show(p.force_at_finger_gap_N, "force"),
+                      none_if_zero(p.snap_distance_bench_m, show(p.snap_distance_bench_m, "length")),
+                      none_if_zero(p.snap_distance_hand_m, show(p.snap_distance_hand_m, "length")),
+                      none_if_zero(p.pinch_energy_J, show(p.pinch_energy_J, "energy")),
+                      none_if_zero(p.impact_speed_m_per_s, show(p.impact_speed_m_per_s, "speed"))]))
+    _collapsed_table(out, ["pair", "approach", "force at contact", "at finger gap", "snaps (bench)", "snaps (hand)",
                            "pinch energy", "impact speed"], rows, lambda row: [f"{row.names(0, code=False)} -> {row.names(1, code=False)}"],
                      "magnets")
 

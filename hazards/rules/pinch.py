@@ -1,8 +1,8 @@
 """Fingers between magnets, or between a magnet and steel: clamp force, pinch energy, snap distances."""
 from __future__ import annotations
 
-from hazards.findings import ACTION, BLOCKING, Finding, is_number, missing_figure, show, snap_text, \
-    source_entry, threshold_map, threshold_text
+from hazards.findings import ACTION, BLOCKING, Finding, approach_text, is_number, missing_figure, show, \
+    none_if_zero, source_entry, threshold_map, threshold_text
 from hazards.rules.common import activities_of, items
 
 CONCERN = "pinch"
@@ -30,15 +30,14 @@ def pinch(setup, assessment, thresholds) -> list:
         clamp, energy = pair.force_at_finger_gap_N, pair.pinch_energy_J
         bound = " (upper bound)" if pair.upper_bound else ""
         pressure = pair.pressure_at_finger_gap_Pa
-        approach = "held in the hand" if pair.approach == "hand" else "sliding on the bench"
-        start = pair.snap_distance_hand_m if pair.approach == "hand" else pair.snap_distance_bench_m
-        # parts that jump together only once closer than a finger release nothing onto it
-        inside_gap = is_number(start) and start <= pair.finger_gap_m
+        # the energy is exactly 0 where the parts jump together only once closer than a
+        # finger (calculations.handling): nothing lands on it, said in words
+        inside_gap = is_number(energy) and energy == 0.0
         nothing = "none: they snap together only inside the finger gap"
         over = [(force_limit, clamp, "force"), (energy_limit, energy, "energy"), (pressure_limit, pressure, "pressure")]
         passed = [(t, v, k) for t, v, k in over if (k != "pressure" or is_number(v)) and _past(v, t.value)]
         figures = [("clamp force at a finger gap of " + show(pair.finger_gap_m, "length"), show(clamp, "force") + bound),
-                   (f"energy released onto the finger, approach {approach}",
+                   (f"energy released onto the finger, approach {approach_text(pair.approach)}",
                     nothing if inside_gap else show(energy, "energy") + bound),
                    ("pressure over the smaller pole face (at least)", show(pressure, "pressure")),
                    ("force at contact", show(pair.force_at_contact_N, "force") + bound),
@@ -70,9 +69,9 @@ def _handling(pair, name, key, figures, table) -> Finding:
         id=f"pinch.handling.{key}", severity=ACTION, concern=CONCERN,
         title=f"Handling {name}: they snap together from {largest}",
         figures=[("snap distance sliding on the bench",
-                  snap_text(pair.snap_distance_bench_m, show(pair.snap_distance_bench_m, "length"))),
+                  none_if_zero(pair.snap_distance_bench_m, show(pair.snap_distance_bench_m, "length"))),
                  ("snap distance held in the hand",
-                  snap_text(pair.snap_distance_hand_m, show(pair.snap_distance_hand_m, "length")))] + figures,
+                  none_if_zero(pair.snap_distance_hand_m, show(pair.snap_distance_hand_m, "length")))] + figures,
         why="Inside the snap distance the attraction beats the hand's grip or the bench friction.",
         cautions=list(pair.warnings or []),
         checklist=[f"Keep {name} at least {largest} apart except when joining them on purpose."],

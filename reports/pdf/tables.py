@@ -11,7 +11,7 @@ from __future__ import annotations
 from reportlab.lib.units import mm
 from reportlab.platypus import KeepTogether
 
-from hazards.findings import snap_text
+from hazards.findings import approach_text, none_if_zero
 from hazards.grouping import name_parts
 from reports.collapse import collapse_rows
 from reports.pdf.formatting import key_label, number, quantity, value_text
@@ -98,14 +98,15 @@ def pair_table(inputs: ReportInputs, s: Styles) -> list:
         return []
     rows = []
     for p in pairs:
-        approach = "by hand" if p.approach == "hand" else "sliding on the bench"
+        approach = approach_text(p.approach)
         upper = " (upper bound)" if p.upper_bound else ""
         rows.append(([p.magnet_id, p.other_id],
                      [f"({p.other_kind.replace('_', ' ')}), {approach}", quantity(p.force_at_contact_N, "N") + upper,
                       f"{quantity(p.force_at_finger_gap_N, 'N')} at {quantity(p.finger_gap_m, 'm')}",
-                      snap_text(p.snap_distance_hand_m, quantity(p.snap_distance_hand_m, "m")),
-                      snap_text(p.snap_distance_bench_m, quantity(p.snap_distance_bench_m, "m")),
-                      quantity(p.pinch_energy_J, "J"), quantity(p.impact_speed_m_per_s, "m/s")]))
+                      none_if_zero(p.snap_distance_hand_m, quantity(p.snap_distance_hand_m, "m")),
+                      none_if_zero(p.snap_distance_bench_m, quantity(p.snap_distance_bench_m, "m")),
+                      none_if_zero(p.pinch_energy_J, quantity(p.pinch_energy_J, "J")),
+                      none_if_zero(p.impact_speed_m_per_s, quantity(p.impact_speed_m_per_s, "m/s"))]))
     cells, merged = _collapsed_cells(rows, lambda row: [_pair_names(row)])
     cells = [[f"{cell[0]} {cell[1]}"] + cell[2:] for cell in cells]     # the pair and its approach share a cell
     story = [s.para("Magnets brought together", s.subheading)]

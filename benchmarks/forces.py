@@ -35,7 +35,7 @@ import numpy as np
 from planner.physics.bodies import MagnetBody, rotation_from_axis
 from planner.physics.fields import field_of_body
 from planner.physics.forces import force_and_torque_by_charges, force_between, place_at_gap
-from planner.physics.forces.charge_model import _rule_key, surface_charge_patches
+from planner.physics.forces.charge_model import _rule_key, in_global_frame, surface_charge_patches
 from planner.physics.forces.face_rules import (_series_ratio, field_in_frame_of, first_pass_size,
                                                whole_face_rule)
 from planner.physics.forces.quadrature import adaptive_box_integral
@@ -56,19 +56,13 @@ CALLS_PER_BLOCK = 10
 def reference_force(target, source, rtol=1e-10):
     """Force on ``target`` by the plain adaptive Gauss-Legendre quadrature (orders 8, 12)."""
     maps, boxes = surface_charge_patches(target)
-    rotation, center = target.rotation, target.center
-
-    def to_global(body_map):
-        def mapped(u):
-            points, measure = body_map(u)
-            return center + points @ rotation.T, measure
-        return mapped
 
     def integrand(points, weight):
         return field_of_body(source, points) * weight[:, None]
 
-    return adaptive_box_integral([to_global(m) for m in maps], boxes, integrand,
-                                 lambda v: np.linalg.norm(v, axis=-1), rtol=rtol, orders=(8, 12))
+    global_maps = [in_global_frame(m, target.rotation, target.center) for m in maps]
+    return adaptive_box_integral(global_maps, boxes, integrand, lambda v: np.linalg.norm(v, axis=-1),
+                                 rtol=rtol, orders=(8, 12))
 
 
 def alternate_best_times(functions, repeats=REPEATS, calls=CALLS_PER_BLOCK):

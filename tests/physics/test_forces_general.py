@@ -364,17 +364,11 @@ def plain_reference(target, source, rtol=1e-8):
     """Force and torque by the plain adaptive quadrature: two Gauss orders (8, 12), their
     difference as error estimate, over the general field function; independent of the
     whole-face first pass, of the extrapolated estimate and of the target-frame field."""
-    from planner.physics.forces.charge_model import surface_charge_patches
+    from planner.physics.forces.charge_model import in_global_frame, surface_charge_patches
     from planner.physics.forces.quadrature import adaptive_box_integral
 
     maps, boxes = surface_charge_patches(target)
-    R, c, L = target.rotation, target.center, target.bounding_radius
-
-    def to_global(body_map):
-        def mapped(u):
-            points, measure = body_map(u)
-            return c + points @ R.T, measure
-        return mapped
+    c, L = target.center, target.bounding_radius
 
     def integrand(points, weight):
         B = field_of_body(source, points)
@@ -383,8 +377,8 @@ def plain_reference(target, source, rtol=1e-8):
 
     def size(v):
         return np.linalg.norm(v[..., :3], axis=-1) + np.linalg.norm(v[..., 3:], axis=-1)
-    total = adaptive_box_integral([to_global(m) for m in maps], boxes, integrand, size,
-                                  rtol=rtol, orders=(8, 12))
+    global_maps = [in_global_frame(m, target.rotation, c) for m in maps]
+    total = adaptive_box_integral(global_maps, boxes, integrand, size, rtol=rtol, orders=(8, 12))
     return total[:3], total[3:] * L
 
 

@@ -352,7 +352,7 @@ def interaction_energy(target: MagnetBody, source: MagnetBody, rtol: float = 1e-
     """
     field = field or _field_function(source)
     maps, boxes = volume_patches(target)
-    global_maps = [_to_global(m, target.rotation, target.center) for m in maps]
+    global_maps = [in_global_frame(m, target.rotation, target.center) for m in maps]
 
     def integrand(points, jacobian):
         return jacobian[:, None] * np.asarray(field(points), dtype=float).reshape(-1, 3)
@@ -363,7 +363,9 @@ def interaction_energy(target: MagnetBody, source: MagnetBody, rtol: float = 1e-
     return float(-target.polarization @ integral / mu_0)
 
 
-def _to_global(body_map, rotation, center):
+def in_global_frame(body_map, rotation, center):
+    """A patch map of :func:`surface_charge_patches` or :func:`volume_patches`, its points
+    moved from the body frame to the global frame, p -> c + R p (the measure unchanged)."""
     def mapped(u):
         points, measure = body_map(u)
         return center + points @ rotation.T, measure

@@ -35,7 +35,8 @@ import numpy as np
 from planner.physics.bodies import MagnetBody, rotation_from_axis
 from planner.physics.fields import field_of_body
 from planner.physics.forces import force_and_torque_by_charges, force_between, place_at_gap
-from planner.physics.forces.charge_model import _rule_key, in_global_frame, surface_charge_patches
+from planner.physics.forces.charge_model import (FIELD_ACCURACY_SHARE, _rule_key, in_global_frame,
+                                                  surface_charge_patches)
 from planner.physics.forces.face_rules import (_series_ratio, field_in_frame_of, first_pass_size,
                                                whole_face_rule)
 from planner.physics.forces.quadrature import adaptive_box_integral
@@ -95,7 +96,7 @@ def magpylib_object(magpy, body):
 def first_pass_field_call(target, source):
     """One call of the field the first pass uses (closed form or series) at its nodes."""
     rule = whole_face_rule(*_rule_key(target), *first_pass_size(target, source))
-    local_field = field_in_frame_of(target, source)
+    local_field = field_in_frame_of(target, source, accuracy=FIELD_ACCURACY_SHARE * 1e-3)
     distance = float(np.linalg.norm(target.center - source.center))
     model = "series" if _series_ratio(target, source, distance) else "closed"
     return model, lambda: local_field(rule.points)

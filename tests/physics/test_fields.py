@@ -127,6 +127,45 @@ def test_bulirsch_with_p_one_and_complete_first_kind():
     np.testing.assert_allclose(complete_k, ellipkm1(kc**2), rtol=1e-13)
 
 
+@pytest.mark.parametrize("accuracy", [1e-7, 1e-5, 1e-3])
+def test_bulirsch_with_reduced_accuracy_stays_within_it(accuracy):
+    # independent computation: Carlson's R_F and R_J from scipy.special, as above. Each kc
+    # is evaluated on its own (the step count follows the smallest kc of a call), over the
+    # whole range of kc and p; the error is measured on the scale C(kc, p, |c|, |s|).
+    rng = np.random.default_rng(6)
+    shortened = 0
+    for kc0 in np.concatenate([np.linspace(0.002, 1.0, 60), 10 ** np.linspace(-8, -3, 12)]):
+        kc = np.full(40, kc0)
+        p = 10 ** rng.uniform(-8, 1, 40)
+        c, s = rng.normal(size=40), rng.normal(size=40)
+        [[value]] = complete_elliptic_integrals(kc, [(p, [(c, s)])], accuracy=accuracy)
+        rf, rj = elliprf(0, kc**2, 1), elliprj(0, kc**2, 1, p)
+        scale = np.abs(c) * rf + np.abs(s - p * c) / 3 * rj
+        assert np.max(np.abs(value - (c * rf + (s - p * c) / 3 * rj)) / scale) <= accuracy
+        [[full]] = complete_elliptic_integrals(kc, [(p, [(c, s)])])
+        shortened += not np.array_equal(value, full)
+    assert shortened > 10  # the iteration did stop early for many kc
+
+
+def test_cylinder_field_with_reduced_accuracy():
+    # independent computation: the same closed form at double precision (itself checked
+    # against Derby & Olbert's values and the surface-charge integral above). Points one at
+    # a time, so that each takes only the steps its own kc needs; a thin disc, where the two
+    # faces' terms cancel most, and a long rod; the docstring states up to 20x accuracy.
+    rng = np.random.default_rng(7)
+    accuracy = 1e-7
+    for diameter, height in ((10e-3, 0.5e-3), (2e-3, 20e-3)):
+        reach = np.hypot(diameter / 2, height / 2)
+        points = rng.normal(size=(300, 3))
+        points *= reach * rng.uniform(0.2, 4.0, (300, 1)) / np.linalg.norm(points, axis=1)[:, None]
+        outside = (np.hypot(points[:, 0], points[:, 1]) > diameter / 2) | (np.abs(points[:, 2]) > height / 2)
+        for J in ([0.0, 0.0, 1.2], [1.2, 0.0, 0.0]):
+            for point in points[outside]:
+                exact = cylinder_field(point[None], diameter, height, J)
+                reduced = cylinder_field(point[None], diameter, height, J, accuracy=accuracy)
+                assert np.linalg.norm(reduced - exact) <= 20 * accuracy * np.linalg.norm(exact)
+
+
 def test_diametral_cylinder_matches_surface_charge_integral():
     # independent computation suggested in physics.md: surface charge J cos(phi')/mu0 on the
     # curved face; the z' integral is done in closed form, the phi' integral by quadrature.

@@ -31,6 +31,7 @@ import numpy as np
 from planner.physics.bodies import MagnetBody
 from planner.physics.fields import (FAR_FIELD_RADII, block_field, cylinder_field, field_of_body,
                                     ring_field, sphere_field)
+from planner.physics.fields.elliptic import FULL_ACCURACY
 from planner.physics.fields.multipole import (MAX_RATIO, axisymmetric_series_field,
                                               cached_zonal_moments, terms_needed)
 from planner.physics.forces.quadrature_rules import nested_tensor_rule
@@ -71,9 +72,8 @@ def first_pass_size(target: MagnetBody, source: MagnetBody) -> tuple[int, int]:
     >>> first_pass_size(a, MagnetBody("sphere", [0, 0, 0.1], np.eye(3), [0, 0, 1.0], diameter=0.01))
     (7, 12)
     """
-    apart = target.center - source.center
     reach = target.bounding_radius + source.bounding_radius
-    ratio = math.sqrt(apart @ apart) / reach
+    ratio = math.dist(target.center.tolist(), source.center.tolist()) / reach
     for separation, size in RULE_TIERS:
         if ratio >= separation:
             return size
@@ -187,7 +187,7 @@ def whole_face_rule(shape: str, diameter: float, height: float, inner_diameter: 
     return WholeFaceRule(maps, faces, points, moments, length)
 
 
-def field_in_frame_of(target: MagnetBody, source: MagnetBody, field=None):
+def field_in_frame_of(target: MagnetBody, source: MagnetBody, field=None, accuracy=FULL_ACCURACY):
     """The source's field as a function of points in the target's frame, in that frame.
 
     Parameters
@@ -198,6 +198,10 @@ def field_in_frame_of(target: MagnetBody, source: MagnetBody, field=None):
         The body whose field is wanted (unless ``field`` is given).
     field : callable, optional
         ``field(global points (n, 3)) -> B (n, 3) [T]`` to use instead.
+    accuracy : float
+        Relative accuracy of the elliptic integrals of a cylinder's or ring's closed form
+        (:func:`~planner.physics.fields.cylinder.cylinder_field`); default double
+        precision.
 
     Returns
     -------
@@ -224,7 +228,8 @@ def field_in_frame_of(target: MagnetBody, source: MagnetBody, field=None):
     """
     rotation, center = target.rotation, target.center
     apart = center - source.center
-    if field is not None or math.sqrt(apart @ apart) + target.bounding_radius > \
+    distance = math.hypot(*apart.tolist())
+    if field is not None or distance + target.bounding_radius > \
             0.5 * FAR_FIELD_RADII * source.bounding_radius:
         global_field = field or (lambda points: field_of_body(source, points))
         return lambda points: np.asarray(global_field(center + points @ rotation.T),
@@ -232,7 +237,7 @@ def field_in_frame_of(target: MagnetBody, source: MagnetBody, field=None):
     turn = source.rotation.T @ rotation
     shift = source.rotation.T @ apart
     J = source.rotation.T @ source.polarization
-    series_ratio = _series_ratio(target, source, math.sqrt(apart @ apart))
+    series_ratio = _series_ratio(target, source, distance)
     if series_ratio is not None:
         shape = (source.diameter / 2, source.inner_diameter / 2, source.height / 2)
         moments = cached_zonal_moments(*shape, terms_needed(series_ratio, shape=shape))
@@ -242,10 +247,10 @@ def field_in_frame_of(target: MagnetBody, source: MagnetBody, field=None):
             return axisymmetric_series_field(q, moments, radius, J)
     elif source.shape == "cylinder":
         def closed_form(q):
-            return cylinder_field(q, source.diameter, source.height, J)
+            return cylinder_field(q, source.diameter, source.height, J, accuracy)
     elif source.shape == "ring":
         def closed_form(q):
-            return ring_field(q, source.diameter, source.inner_diameter, source.height, J)
+            return ring_field(q, source.diameter, source.inner_diameter, source.height, J, accuracy)
     elif source.shape == "block":
         def closed_form(q):
             return block_field(q, source.size, J)

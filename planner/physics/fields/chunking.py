@@ -79,6 +79,6 @@ def without_rounding_noise(polarization):
     >>> without_rounding_noise([1e-17, 0.0, 1.2]).tolist()
     [0.0, 0.0, 1.2]
     """
-    components = np.asarray(polarization, dtype=float).reshape(3).tolist()
-    noise = ROUNDING_NOISE * math.sqrt(sum(c * c for c in components))
-    return np.array([c if abs(c) > noise else 0.0 for c in components])
+    x, y, z = np.asarray(polarization, dtype=float).reshape(3).tolist()
+    noise = ROUNDING_NOISE * math.hypot(x, y, z)
+    return np.array([c if abs(c) > noise else 0.0 for c in (x, y, z)])

@@ -234,9 +234,11 @@ def field_in_frame_of(target: MagnetBody, source: MagnetBody, field=None, accura
         global_field = field or (lambda points: field_of_body(source, points))
         return lambda points: np.asarray(global_field(center + points @ rotation.T),
                                          dtype=float).reshape(-1, 3) @ rotation
-    turn = source.rotation.T @ rotation
-    shift = source.rotation.T @ apart
-    J = source.rotation.T @ source.polarization
+    # ndarray.dot rather than @: for 3 x 3 arrays it has a third of the call overhead
+    back = source.rotation.T
+    turn = back.dot(rotation)
+    shift = back.dot(apart)
+    J = back.dot(source.polarization)
     series_ratio = _series_ratio(target, source, distance)
     if series_ratio is not None:
         shape = (source.diameter / 2, source.inner_diameter / 2, source.height / 2)
@@ -257,8 +259,8 @@ def field_in_frame_of(target: MagnetBody, source: MagnetBody, field=None, accura
     else:
         def closed_form(q):
             return sphere_field(q, source.diameter, J)
-    turn_back = np.ascontiguousarray(turn.T)
-    return lambda points: closed_form(points @ turn_back + shift) @ turn
+    turn_back = rotation.T.dot(source.rotation)  # turn.T
+    return lambda points: closed_form(points.dot(turn_back) + shift).dot(turn)
 
 
 def _series_ratio(target, source, distance):

@@ -18,13 +18,12 @@ magpylib's taken alternately so that a load on the machine weighs on both alike;
 ratios are steadier than the absolute times.
 Then the exact fast paths (coaxial cylinders, parallel cuboids) are timed.
 
-Measured on the 2-core development machine (December 2026), four runs: every case takes one
-field call; ours 0.10-0.24 ms with force errors 1e-14..6e-5 at rtol 1e-3; 14-37x faster
-than magpylib where it needs 300-1000 cells (coaxial and offset at 1 and 5 mm) and
-10.3-14.3x at 20 mm, where the source's multipole series replaces its closed form. Below
-10x: the tilted target at 1 mm (7.0-8.7x) and 5 mm (7.4-9.0x), where magpylib needs only
-30-100 cells (1.06-2.1 ms) and the closed-form field call alone, mostly fixed numpy cost
-whatever the number of nodes, takes about a tenth of that (cap column).
+Measured on the 2-core development machine (2 December 2026), quiet, two runs: every case
+takes one field call; ours 0.08-0.14 ms with force errors 1e-14..6e-5 at rtol 1e-3; 19-49x
+faster than magpylib where it needs 300-1000 cells (coaxial and offset at 1 and 5 mm),
+13-14x at 20 mm (the source's multipole series), and 10.7-10.8x (1 mm) and 11.1-11.5x
+(5 mm) for the tilted target, where magpylib needs only 30-100 cells (1.1-1.4 ms). Ratios
+fall by a tenth or so when the machine is busy.
 """
 from __future__ import annotations
 

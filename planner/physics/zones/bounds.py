@@ -61,12 +61,6 @@ def exact_body_field(body, points):
     return np.asarray(field_of_body(body, points), dtype=float).reshape(-1, 3)
 
 
-def body_constants(bodies):
-    """Moment sizes m [A m^2], bounding radii a [m], mean square radii s^2 [m^2] (0 for spheres)."""
-    table = body_table(bodies)
-    return table.moments, table.reach, table.square
-
-
 class BodyTable:
     """Per-body constants gathered once for a list of bodies (arrays over bodies).
 

@@ -45,7 +45,7 @@ MAX_CONES = 24000
 WITNESS_ERROR = 1e-2
 
 
-def farthest_start_radius(bodies: list[MagnetBody], index: int, threshold: float) -> float:
+def farthest_start_radius(bodies: list[MagnetBody], index: int, threshold: float, table=None) -> float:
     """A radius around body ``index`` beyond which no point of its cell reaches ``threshold``.
 
     Parameters
@@ -55,6 +55,9 @@ def farthest_start_radius(bodies: list[MagnetBody], index: int, threshold: float
         The body whose centre is the origin of the distance.
     threshold : float
         Flux density [T], > 0.
+    table : BodyTable, optional
+        The bodies' constants (:class:`planner.physics.zones.bounds.BodyTable`), if the
+        caller has them already; built here otherwise.
 
     Returns
     -------
@@ -82,7 +85,8 @@ def farthest_start_radius(bodies: list[MagnetBody], index: int, threshold: float
     >>> round(farthest_start_radius([ball], 0, 1e-3) * 100, 2)  # exact dipole: on-axis radius
     4.64
     """
-    moments, reach, square = bounds.body_constants(bodies)
+    table = bounds.body_table(bodies, table)
+    moments, reach, square = table.moments, table.reach, table.square
     k = bounds.K
     half_gap = np.array([np.linalg.norm(b.center - bodies[index].center) / 2 for b in bodies])
 
@@ -207,7 +211,7 @@ def keep_out_radii(bodies: list[MagnetBody], index: int, thresholds) -> np.ndarr
     rays = None
     for position in np.argsort(thresholds):
         threshold = thresholds[position]
-        start = farthest_start_radius(bodies, index, threshold)
+        start = farthest_start_radius(bodies, index, threshold, table)
         if previous is not None:
             start = min(start, previous)
         if rays is None:  # sampled once, out to the lowest threshold's start

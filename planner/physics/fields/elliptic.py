@@ -60,8 +60,8 @@ def complete_elliptic_integrals(kc, groups, first_kind=False, accuracy=FULL_ACCU
     k_e <- k m' until |m - k| <= tau m, then one step more; C = (pi/2) (s + c m)/(m (m + p)).
     The relative gap |m - k|/m falls quadratically (to about its square over 8 per step),
     so the error after that last step is about tau^2/8: tau = 1e-8 by default, and
-    tau = sqrt(accuracy) otherwise (errors measured in the tests: at most tau^2/8 for
-    kc in [1e-8, 1] and p in [1e-8, 10]).
+    tau = sqrt(accuracy) otherwise (measured: at most tau^2/8 for kc in [1e-8, 1] and p in
+    [1e-8, 10]; the tests check tau^2, the accuracy asked for).
     The modulus sequence (k, k_e, m) is shared by all groups. Convergence is quadratic;
     points with kc -> 0 (the rim of a cylinder face) take a few more steps. The number of
     steps is fixed beforehand from the smallest kc (the slowest to converge), so the loop

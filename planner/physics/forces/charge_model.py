@@ -323,7 +323,7 @@ def _rule_key(body: MagnetBody):
     Polarization components below 1e-12 of the largest (rounding left by rotations) are
     set to zero, so that no face with a vanishing charge is integrated.
     """
-    J = body.polarization.dot(body.rotation).tolist()  # R^T J
+    J = body.polarization_body.tolist()
     floor = 1e-12 * max(map(abs, J))
     J = tuple(v if abs(v) > floor else 0.0 for v in J)
     return (body.shape, float(body.diameter), float(body.height), float(body.inner_diameter),

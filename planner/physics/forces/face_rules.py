@@ -238,7 +238,7 @@ def field_in_frame_of(target: MagnetBody, source: MagnetBody, field=None, accura
     back = source.rotation.T
     turn = back.dot(rotation)
     shift = back.dot(apart)
-    J = back.dot(source.polarization)
+    J = source.polarization_body
     series_ratio = _series_ratio(target, source, distance)
     if series_ratio is not None:
         shape = (source.diameter / 2, source.inner_diameter / 2, source.height / 2)

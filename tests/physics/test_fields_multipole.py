@@ -93,15 +93,25 @@ def test_terms_grow_with_the_ratio_and_refuse_points_inside_the_bounding_sphere(
 
 @pytest.mark.parametrize("shape", SHAPES)
 def test_low_moments_are_the_volume_and_the_second_moments(shape):
-    # moments of inertia of a cylinder (tables): c_0 = V / 4 pi and
-    # c_2 = (1 / 4 pi) integral (z^2 - rho^2 / 2) dV = (I_zz - (I_xx + I_yy) / 2) / 4 pi
+    # c_0 = V / 4 pi and c_2 = (1 / 4 pi) integral (z^2 - rho^2 / 2) dV = (I_zz - (I_xx + I_yy) / 2) / 4 pi,
+    # with the second moments written out from a table of moments of inertia (any mechanics handbook,
+    # e.g. CRC Standard Mathematical Tables; the mass moments divided by the density): for a solid
+    # cylinder of radius a and length L, V = pi a^2 L, integral x^2 dV = V a^2 / 4 and integral
+    # z^2 dV = V L^2 / 12; for a ring (hollow cylinder) with bore radius b, V = pi (a^2 - b^2) L,
+    # integral x^2 dV = V (a^2 + b^2) / 4 and integral z^2 dV = V L^2 / 12.
     radius, bore, half = SHAPES[shape]
+    length = 2 * half
+    volume = np.pi * (radius**2 - bore**2) * length
+    table = np.array([volume * (radius**2 + bore**2) / 4,
+                      volume * (radius**2 + bore**2) / 4,
+                      volume * length**2 / 12])
     body = MagnetBody("ring" if bore else "cylinder", [0, 0, 0], np.eye(3), [0, 0, 1.0],
                       diameter=2 * radius, inner_diameter=2 * bore, height=2 * half)
+    assert body.volume == pytest.approx(volume, rel=1e-14)
+    assert np.diag(second_moments(body)) == pytest.approx(table, rel=1e-12)
     c = zonal_moments(radius, bore, half, 2)
-    I = np.diag(second_moments(body))
-    assert c[0] == pytest.approx(body.volume / (4 * np.pi), rel=1e-14)
-    assert c[1] == pytest.approx((I[2] - (I[0] + I[1]) / 2) / (4 * np.pi), rel=1e-12)
+    assert c[0] == pytest.approx(volume / (4 * np.pi), rel=1e-14)
+    assert c[1] == pytest.approx((table[2] - (table[0] + table[1]) / 2) / (4 * np.pi), rel=1e-12)
 
 
 def test_divergence_and_curl_vanish():

@@ -168,38 +168,21 @@ def dipole_assignment(bodies, points, allowed_error, table=None, distance=None):
     """Which bodies may be taken as point dipoles at each point, and what that costs.
 
     Returns ``far`` (n, b) bool, the summed field error bound (n,) [T] and the summed
-    gradient error bound (n,) [T/m] of the dipole stand-ins (Taylor remainders
-    12 k m s^2 / (d - a)^5 and 60 k m s^2 / (d - a)^6, or for cylinders and rings the
-    series' terms of degree 2 and up, 2 k m (S_0 - 1) / d^3 and 6 k m (S_1 - 1) / d^4,
-    whichever is smaller; see the module docstring). At each point the bodies with the
+    gradient error bound (n,) [T/m] of the dipole stand-ins (:func:`dipole_remainders`).
+    At each point the bodies with the
     smallest remainders are dipoles as long as their summed field error stays within
     ``allowed_error``. ``table`` (a :class:`BodyTable`
     of ``bodies``) and ``distance`` (the centre distances (n, b)) may be passed to save work.
     """
     table = body_table(bodies, table)
-    moments, reach, square = table.moments, table.reach, table.square
     if distance is None:
         distance = table.centre_distances(points)
-    shift = np.where(square == 0, 0.0, reach)
-    series = table.series
-    with np.errstate(invalid="ignore", divide="ignore", over="ignore"):
-        gap = np.where(distance > reach * (1 + 1e-9), distance - shift, np.nan)
-        remainder = 12 * K * moments * square / gap**5
-        gradient_remainder = 60 * K * moments * square / gap**6
-        if series.usable(series.row):
-            # the series terms l >= 2 of cylinders and rings: 2 k m (S_0 - 1) / d^3 and
-            # 6 k m (S_1 - 1) / d^4 (the dipole is the l = 0 term), often 100x smaller
-            index = series.index(series.row, reach / distance)
-            inverse = 1.0 / distance
-            remainder = np.fmin(remainder, 2 * K * moments * (np.take(series.flat[0], index) - 1.0)
-                                * inverse**3)
-            gradient_remainder = np.fmin(gradient_remainder, 6 * K * moments
-                                         * (np.take(series.flat[1], index) - 1.0) * inverse**4)
+    remainder, gradient_remainder = dipole_remainders(table, distance)
+    with np.errstate(invalid="ignore"):
         # Spend the allowance greedily, smallest remainders first: a body is a dipole while
         # the running sum of the remainders stays within allowed_error (any choice is sound,
         # as the sum is the error bound returned; this one leaves the fewest bodies to
         # evaluate exactly, about half as many as an equal share per body).
-        remainder = np.where(np.isnan(remainder), np.inf, remainder)
         order = np.argsort(remainder, axis=1, kind="stable")
         running = np.cumsum(np.take_along_axis(remainder, order, axis=1), axis=1)
         far = np.empty(remainder.shape, dtype=bool)
@@ -207,6 +190,47 @@ def dipole_assignment(bodies, points, allowed_error, table=None, distance=None):
         error = np.sum(np.where(far, remainder, 0.0), axis=1)
         gradient_error = np.sum(np.where(far, gradient_remainder, 0.0), axis=1)
     return far, error, gradient_error
+
+
+def dipole_remainders(table, distance):
+    """Bounds on how far each body's field and its Jacobian are from its point dipole's.
+
+    Parameters
+    ----------
+    table : BodyTable
+        The bodies' constants.
+    distance : ndarray (..., b)
+        Distances [m] from each body's centre (last axis: the bodies of ``table``).
+
+    Returns
+    -------
+    field, gradient : ndarray (..., b)
+        |B - B_dipole| [T] and ||D(B - B_dipole)|| [T/m] at least as large as the truth at
+        any point that far from the centre; +inf within a body's bounding sphere.
+
+    Notes
+    -----
+    The Taylor remainders of the multipole expansion, 12 k m s^2 / (d - a)^5 and
+    60 k m s^2 / (d - a)^6 (a = 0 for a sphere, whose s^2 is 0), and for cylinders and
+    rings the smaller sums of the series' terms of degree 2 and up,
+    2 k m (S_0 - 1) / d^3 and 6 k m (S_1 - 1) / d^4 (the dipole is the l = 0 term; often
+    100x smaller); see the module docstring. Both fall as d grows, so a bound at the
+    smallest distance of a region holds over all of it.
+    """
+    moments, reach, square = table.moments, table.reach, table.square
+    shift = np.where(square == 0, 0.0, reach)
+    series = table.series
+    with np.errstate(invalid="ignore", divide="ignore", over="ignore"):
+        gap = np.where(distance > reach * (1 + 1e-9), distance - shift, np.nan)
+        field = 12 * K * moments * square / gap**5
+        gradient = 60 * K * moments * square / gap**6
+        if series.usable(series.row):
+            index = series.index(series.row, reach / distance)
+            inverse = 1.0 / distance
+            field = np.fmin(field, 2 * K * moments * (np.take(series.flat[0], index) - 1.0) * inverse**3)
+            gradient = np.fmin(gradient, 6 * K * moments * (np.take(series.flat[1], index) - 1.0)
+                               * inverse**4)
+    return np.where(np.isnan(field), np.inf, field), np.where(np.isnan(gradient), np.inf, gradient)
 
 
 def model_field(bodies, points, far, table=None):
@@ -260,8 +284,9 @@ def field_with_error(bodies, points, allowed_error, table=None):
     points : array (n, 3)
         [m].
     allowed_error : float
-        Largest error [T] the caller accepts; bodies far enough away for their dipole error
-        to stay below ``allowed_error / len(bodies)`` are taken as dipoles.
+        Largest error [T] the caller accepts; at each point the bodies with the smallest
+        dipole errors are taken as dipoles while their sum stays within it
+        (:func:`dipole_assignment`).
     table : BodyTable, optional
         Constants of ``bodies`` built beforehand (same result, less work).
 

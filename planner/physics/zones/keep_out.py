@@ -69,10 +69,11 @@ def farthest_start_radius(bodies: list[MagnetBody], index: int, threshold: float
     -----
     In that cell every other centre is at least as far as c, d_i >= r, and d_i >= g_i - r
     with g_i the distance between the centres; for all radii r >= R both give
-    d_i >= max(R, g_i / 2) = e_i. With the dipole value and the multipole error bound of each
-    body (``zones.bounds``), |B| <= sum_i [2 k m_i / e_i^3 + 12 k m_i s_i^2 / (e_i - a_i)^5],
-    k = mu0/4pi, valid for e_i > a_i. The right side falls with R; bisection finds where it
-    meets the threshold.
+    d_i >= max(R, g_i / 2) = e_i. With the dipole value and the error bound of the dipole
+    stand-in of each body (:func:`~planner.physics.zones.bounds.dipole_remainders`, which
+    falls with distance), |B| <= sum_i [2 k m_i / e_i^3 + remainder_i(e_i)], k = mu0/4pi,
+    finite for e_i > a_i. The right side falls with R; bisection finds where it meets the
+    threshold.
 
     References
     ----------
@@ -86,14 +87,12 @@ def farthest_start_radius(bodies: list[MagnetBody], index: int, threshold: float
     4.64
     """
     table = bounds.body_table(bodies, table)
-    moments, reach, square = table.moments, table.reach, table.square
-    k = bounds.K
-    half_gap = np.array([np.linalg.norm(b.center - bodies[index].center) / 2 for b in bodies])
+    moments, reach = table.moments, table.reach
+    half_gap = np.linalg.norm(table.centres - table.centres[index], axis=1) / 2
 
     def bound(r):
         distance = np.maximum(r, half_gap)
-        gap = np.maximum(distance - reach, 1e-300)
-        return np.sum(2 * k * moments / distance**3 + 12 * k * moments * square / gap**5)
+        return np.sum(2 * bounds.K * moments / distance**3 + bounds.dipole_remainders(table, distance)[0])
 
     low = max(float(np.max(reach - half_gap)) * (1 + 1e-9), float(reach[index]) * (1 + 1e-9), 1e-6)
     if bound(low) < threshold:

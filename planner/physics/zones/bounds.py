@@ -406,12 +406,13 @@ def derivative_bound(geometry, spread, order):
     return derivative_bounds(geometry, spread, (order,))[0]
 
 
-def gradient_bound(bodies, points, spread):
+def gradient_bound(bodies, points, spread, table=None):
     """Bound on ||grad B|| [T/m] of the total field over balls of radius ``spread`` (n,) [m].
 
     :func:`derivative_bound` of order 1 on the points' geometry; infinite where a ball
-    touches a body (no bound is claimed there).
+    touches a body (no bound is claimed there). ``table``: the bodies' :class:`BodyTable`,
+    if the caller has it (same result, less work).
     """
     points = np.asarray(points, dtype=float).reshape(-1, 3)
     spread = np.broadcast_to(np.asarray(spread, dtype=float), (len(points),))
-    return derivative_bound(_ball_geometry(bodies, points), spread, 1)
+    return derivative_bound(_ball_geometry(bodies, points, table), spread, 1)

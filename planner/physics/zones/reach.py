@@ -31,7 +31,7 @@ def _box_bounds(bodies, centres, halves, allowed_error, table):
     """Field at box centres, its error, and a proven upper bound of |B| over each box [T]."""
     value, error = field_with_error(bodies, centres, allowed_error, table)
     spread = np.linalg.norm(halves, axis=1)  # the box lies in the ball of this radius
-    slope = gradient_bound(bodies, centres, spread)
+    slope = gradient_bound(bodies, centres, spread, table)
     with np.errstate(invalid="ignore"):
         upper = value + error + spread * slope
     upper = np.where(np.isnan(upper), np.inf, upper)  # a box touching a magnet: no bound

@@ -16,6 +16,7 @@ from concurrent.futures import ProcessPoolExecutor
 import numpy as np
 
 from planner.physics.bodies import MagnetBody
+from planner.physics.zones.bounds import BodyTable
 from planner.physics.zones.keep_out import keep_out_radii
 
 __all__ = ["KeepOutJob", "keep_out_table", "available_workers"]
@@ -26,10 +27,7 @@ def available_workers() -> int:
     # Forking is safe on Linux; on macOS system libraries may not survive it, and Windows has none.
     if not sys.platform.startswith("linux") or "fork" not in multiprocessing.get_all_start_methods():
         return 1
-    try:
-        return max(len(os.sched_getaffinity(0)), 1)
-    except AttributeError:  # platforms without CPU affinity
-        return max(os.cpu_count() or 1, 1)
+    return max(len(os.sched_getaffinity(0)), 1)  # Linux always has CPU affinity
 
 
 class KeepOutJob:
@@ -46,6 +44,9 @@ class KeepOutJob:
         self.workers = min(available_workers() if workers is None else int(workers), count)
         self._pool, self._futures = None, {}
         if self.workers > 1:
+            # The bodies' series tables are cached per shape: filling the caches here, before
+            # forking, lets every worker inherit them instead of computing them again.
+            BodyTable(self.bodies)
             order = np.argsort([-float(np.linalg.norm(body.moment)) for body in self.bodies], kind="stable")
             self._pool = ProcessPoolExecutor(max_workers=self.workers, mp_context=multiprocessing.get_context("fork"))
             self._futures = {int(i): self._pool.submit(keep_out_radii, self.bodies, int(i), self.thresholds)

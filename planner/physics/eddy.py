@@ -37,20 +37,12 @@ from dataclasses import dataclass
 import numpy as np
 
 from planner.physics.constants import mu_0, STANDARD_GRAVITY as standard_gravity
-from planner.physics.gauss import gauss_legendre
+from planner.physics.gauss import gauss_panels
 from planner.physics.induction.magnet_flux import AxialMagnet, loop_flux, radial_field
 from planner.physics.roots import bracketed_root
 
 _LOW_SPEED_LIMIT = 0.1
 _GRADING = np.array([0.03, 0.1, 0.3, 1.0, 3.0, 10.0, 30.0, 100.0, 300.0, 1000.0])
-
-
-def _gauss_panels(breaks, nodes=8):
-    """Nodes and weights of Gauss-Legendre panels between the sorted, distinct breakpoints."""
-    x, w = gauss_legendre(nodes)
-    breaks = np.unique(np.asarray(breaks, dtype=float))
-    lo, hi = breaks[:-1, None], breaks[1:, None]
-    return ((lo + hi) / 2 + (hi - lo) / 2 * x).ravel(), ((hi - lo) / 2 * w).ravel()
 
 
 def dipole_tube_drag_constant(moment, inner_radius, outer_radius, conductivity):
@@ -106,13 +98,13 @@ def tube_drag_constant(magnet: AxialMagnet, inner_radius, outer_radius, conducti
     if magnet.polarization == 0.0 or conductivity == 0.0:
         return 0.0
     gap = max(inner_radius - magnet.outer_radius, 1e-3 * inner_radius)
-    rho, w_rho = _gauss_panels(np.clip(inner_radius + gap * _GRADING, inner_radius, outer_radius)
-                               .tolist() + [inner_radius, outer_radius], nodes)
+    rho, w_rho = gauss_panels(np.unique(np.append(
+        np.clip(inner_radius + gap * _GRADING, inner_radius, outer_radius), [inner_radius, outer_radius])), nodes)
     face = magnet.length / 2.0
     far = face + 60.0 * outer_radius
     z_breaks = np.concatenate([[0.0, face, far], face + gap * _GRADING, face - gap * _GRADING,
                                face + outer_radius * np.geomspace(1, 60, 8)])
-    z, w_z = _gauss_panels(np.clip(z_breaks, 0.0, far), nodes)
+    z, w_z = gauss_panels(np.unique(np.clip(z_breaks, 0.0, far)), nodes)
     b_rho = radial_field(magnet, rho[:, None], z[None, :])
     return float(4.0 * np.pi * conductivity * np.sum(w_rho * rho * ((b_rho**2) @ w_z)))
 
@@ -323,10 +315,10 @@ def sheet_drag(magnet: AxialMagnet, height, conductivity, thickness, speed, node
         return 0.0
     size = max(magnet.outer_radius, magnet.length / 2.0)
     depth = height + thickness
-    rho, w_rho = _gauss_panels(np.concatenate([[0.0], height * _GRADING, size * _GRADING[:6],
-                                               [1000.0 * depth]]), nodes)
-    z, w_z = _gauss_panels(height + np.clip(np.concatenate([[0.0, thickness], height * _GRADING]),
-                                            0.0, thickness), nodes)
+    rho, w_rho = gauss_panels(np.unique(np.concatenate([[0.0], height * _GRADING, size * _GRADING[:6],
+                                                        [1000.0 * depth]])), nodes)
+    z, w_z = gauss_panels(np.unique(height + np.clip(np.concatenate([[0.0, thickness], height * _GRADING]),
+                                                     0.0, thickness)), nodes)
     step = 1e-5 * rho[:, None]
 
     def potential(r):

@@ -14,17 +14,12 @@ from __future__ import annotations
 import numpy as np
 
 from planner.physics.constants import mu_0
-from planner.physics.gauss import gauss_legendre
+from planner.physics.gauss import gauss_panels
 
 
 def _graded_gauss_on_angle(levels: int = 48, order: int = 8):
     """Composite Gauss-Legendre nodes on [0, pi], graded geometrically toward 0."""
-    x, w = gauss_legendre(order)
-    edges = np.concatenate([[0.0], np.pi * 2.0 ** -np.arange(levels, -1, -1.0)])
-    a, b = edges[:-1, None], edges[1:, None]
-    nodes = (a + b) / 2 + (b - a) / 2 * x
-    weights = (b - a) / 2 * w
-    return nodes.ravel(), weights.ravel()
+    return gauss_panels(np.concatenate([[0.0], np.pi * 2.0 ** -np.arange(levels, -1, -1.0)]), order)
 
 
 _ANGLE_NODES, _ANGLE_WEIGHTS = _graded_gauss_on_angle()

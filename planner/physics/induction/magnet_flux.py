@@ -20,7 +20,7 @@ from typing import NamedTuple
 import numpy as np
 
 from planner.physics.constants import mu_0
-from planner.physics.gauss import gauss_legendre
+from planner.physics.gauss import gauss_panels
 from planner.physics.bodies import rotation_from_axis
 
 from .sheets import sheet_flux, sheet_radial_field
@@ -221,11 +221,8 @@ def flux_from_field(field, center, normal, radius, radial_nodes=16, angular_node
     Abramowitz & Stegun, 25.4.29-30 (1964) (Gauss-Legendre and periodic trapezoid rules).
     """
     first, second, normal = rotation_from_axis(normal).T  # an orthonormal frame with the disc's normal
-    x, w = gauss_legendre(radial_nodes)
-    edges = np.unique(np.clip([0.0, radius, *radial_breaks], 0.0, radius))
-    lo, hi = edges[:-1, None], edges[1:, None]
-    r = ((lo + hi) / 2.0 + (hi - lo) / 2.0 * x).ravel()
-    weight_r = ((hi - lo) / 2.0 * w).ravel() * r
+    r, weight_r = gauss_panels(np.unique(np.clip([0.0, radius, *radial_breaks], 0.0, radius)), radial_nodes)
+    weight_r = weight_r * r
     radial_nodes = len(r)
     phi = 2.0 * np.pi * np.arange(angular_nodes) / angular_nodes
     directions = np.outer(np.cos(phi), first) + np.outer(np.sin(phi), second)

@@ -23,7 +23,7 @@ from itertools import accumulate
 import numpy as np
 
 from planner.physics.constants import STANDARD_GRAVITY as standard_gravity
-from planner.physics.gauss import gauss_legendre
+from planner.physics.gauss import gauss_legendre, gauss_panels
 from planner.physics.bodies import rotation_from_axis
 
 from .coils import Winding, winding_inductance
@@ -93,10 +93,7 @@ def flux_linkage(magnet: AxialMagnet, winding: Winding, positions, nodes_per_pan
                            (faces[:, :, None] - grading).reshape(len(z0), -1),
                            np.linspace(-half, half, 9)[None, :].repeat(len(z0), 0)], axis=1)
     breaks = np.sort(np.clip(grid, -half, half), axis=1)
-    x, w = gauss_legendre(nodes_per_panel)
-    lo, hi = breaks[:, :-1, None], breaks[:, 1:, None]
-    z = ((lo + hi) / 2.0 + (hi - lo) / 2.0 * x).reshape(len(z0), -1)
-    weights = ((hi - lo) / 2.0 * w).reshape(len(z0), -1)
+    z, weights = gauss_panels(breaks, nodes_per_panel)  # one rule per row; repeated breaks weigh 0
     radii, turns = winding.radial_nodes()
     total = np.zeros(len(z0))
     for radius, count in zip(radii, turns):

@@ -32,7 +32,7 @@ import numpy as np
 
 from planner.physics.constants import mu_0
 from planner.physics.fields.elliptic import complete_elliptic_integrals, legendre_k_and_e
-from planner.physics.gauss import gauss_legendre
+from planner.physics.gauss import gauss_panels
 
 from .loops import elliptic_psi_over_k
 
@@ -147,17 +147,6 @@ def sheet_radial_field(sheet_radius, radius, start_offset, end_offset, surface_c
     return mu_0 * np.asarray(surface_current, dtype=float) / np.pi * scale * (terms[0] - terms[1])
 
 
-def _panel_nodes(breaks, nodes_per_panel):
-    """Gauss-Legendre nodes and weights on the panels between sorted breakpoints."""
-    x, w = gauss_legendre(nodes_per_panel)
-    breaks = np.unique(breaks)
-    lo, hi = breaks[:-1], breaks[1:]
-    half = (hi - lo) / 2.0
-    points = (lo + hi)[:, None] / 2.0 + half[:, None] * x[None, :]
-    weights = half[:, None] * w[None, :]
-    return points.ravel(), weights.ravel()
-
-
 def coaxial_sheet_mutual_inductance(radius_1, length_1, turns_1, radius_2, length_2, turns_2,
                                     offset=0.0, nodes_per_panel=12):
     """Mutual inductance of two coaxial single-layer windings treated as current sheets [H].
@@ -195,7 +184,7 @@ def coaxial_sheet_mutual_inductance(radius_1, length_1, turns_1, radius_2, lengt
         breaks.extend(edge - grading)
         breaks.append(edge)
     breaks = np.clip(np.array(breaks), start, end)
-    z, w = _panel_nodes(breaks, nodes_per_panel)
+    z, w = gauss_panels(np.unique(breaks), nodes_per_panel)
     radius_1 = np.asarray(radius_1, dtype=float)[..., None]
     radius_2 = np.asarray(radius_2, dtype=float)[..., None]
     flux = sheet_flux(radius_1, radius_2, -half_1 - z, half_1 - z, np.asarray(turns_1)[..., None] / length_1)

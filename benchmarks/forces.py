@@ -6,8 +6,9 @@ For each arrangement (coaxial, offset, tilted) and gap (1, 5, 20 mm) it reports:
 - the time of our general charge-model quadrature at rtol = 1e-3 and its force error
   against a tight reference computed independently of its first pass and error estimate:
   adaptive tensor Gauss-Legendre quadrature (orders 8 and 12, the plain difference as error
-  estimate) at rtol = 1e-10 over the general field function, which agrees with the exact
-  closed form of Vokoun et al. to ~1e-10 for the coaxial pairs;
+  estimate) at rtol = 1e-10 over the general field function (the tests' plain_reference in
+  tests/physics/references.py), which agrees with the exact closed form of Vokoun et al. to
+  ~1e-10 for the coaxial pairs;
 - the smallest magpylib meshing (test-only reference library, magpylib.getFT) from a
   geometric ladder starting at 10 cells whose force error is within 0.1 %, and its time;
 - the time of one call of the source's closed-form field at the first pass's nodes (168 to
@@ -27,18 +28,20 @@ fall by a tenth or so when the machine is busy.
 """
 from __future__ import annotations
 
+import sys
 import time
+from pathlib import Path
 
 import numpy as np
 
 from planner.physics.bodies import MagnetBody, rotation_from_axis
-from planner.physics.fields import field_of_body
 from planner.physics.forces import force_and_torque_by_charges, force_between, place_at_gap
-from planner.physics.forces.charge_model import (FIELD_ACCURACY_SHARE, _rule_key, in_global_frame,
-                                                  surface_charge_patches)
+from planner.physics.forces.charge_model import FIELD_ACCURACY_SHARE, _rule_key
 from planner.physics.forces.face_rules import (_series_ratio, field_in_frame_of, first_pass_size,
                                                whole_face_rule)
-from planner.physics.forces.quadrature import adaptive_box_integral
+
+sys.path.insert(0, str(Path(__file__).resolve().parents[1]))  # the repository root, for tests.physics
+from tests.physics.references import magpylib_source, plain_reference  # noqa: E402
 
 SOURCE = MagnetBody("cylinder", [0, 0, 0], np.eye(3), [0, 0, 1.3], diameter=10e-3, height=5e-3)
 TILT = rotation_from_axis([np.sin(np.radians(30)), 0, np.cos(np.radians(30))])
@@ -54,15 +57,9 @@ CALLS_PER_BLOCK = 10
 
 
 def reference_force(target, source, rtol=1e-10):
-    """Force on ``target`` by the plain adaptive Gauss-Legendre quadrature (orders 8, 12)."""
-    maps, boxes = surface_charge_patches(target)
-
-    def integrand(points, weight):
-        return field_of_body(source, points) * weight[:, None]
-
-    global_maps = [in_global_frame(m, target.rotation, target.center) for m in maps]
-    return adaptive_box_integral(global_maps, boxes, integrand, lambda v: np.linalg.norm(v, axis=-1),
-                                 rtol=rtol, orders=(8, 12))
+    """Force on ``target`` by the plain adaptive Gauss-Legendre quadrature (orders 8, 12) of
+    the tests (``tests.physics.references.plain_reference``)."""
+    return plain_reference(target, source, rtol=rtol)[0]
 
 
 def alternate_best_times(functions, repeats=REPEATS, calls=CALLS_PER_BLOCK):
@@ -81,15 +78,6 @@ def alternate_best_times(functions, repeats=REPEATS, calls=CALLS_PER_BLOCK):
                 function()
             best[k] = min(best[k], (time.perf_counter() - start) / calls)
     return best
-
-
-def magpylib_object(magpy, body):
-    from scipy.spatial.transform import Rotation
-
-    return magpy.magnet.Cylinder(dimension=(body.diameter, body.height),
-                                 polarization=body.rotation.T @ body.polarization,
-                                 position=body.center,
-                                 orientation=Rotation.from_matrix(body.rotation))
 
 
 def first_pass_field_call(target, source):
@@ -122,8 +110,8 @@ def main():
                 print(f"{line} {ours_time * 1e3:8.3f} {ours_error:9.1e} "
                       f"{field_time * 1e3:9.3f} {model}")
                 continue
-            source_object, target_object = (magpylib_object(magpy, SOURCE),
-                                            magpylib_object(magpy, target))
+            source_object, target_object = (magpylib_source(SOURCE, magpy),
+                                            magpylib_source(target, magpy))
             for cells in MESH_LADDER:
                 force, _ = magpy.getFT(source_object, target_object, meshing=cells, eps=1e-8)
                 error = np.linalg.norm(force - truth) / np.linalg.norm(truth)

@@ -4,14 +4,15 @@ The reference library works in SI units (positions in m, B in T) and takes the
 polarization J = mu0 M [T] in the magnet's own (rotated) frame; a cylinder is given by
 (diameter, height), a hollow cylinder by (inner radius, outer radius, height, start and
 end angle in degrees), a cuboid by its edge lengths. Our MagnetBody holds J in the global
-frame, so it is turned into the body frame before it is handed over.
+frame, so it is turned into the body frame before it is handed over
+(``tests.physics.references.magpylib_source``).
 """
 import numpy as np
 import pytest
-from scipy.spatial.transform import Rotation
 
 from planner.physics.bodies import MagnetBody, rotation_from_axis
 from planner.physics.fields import field_of_body
+from tests.physics.references import magpylib_source
 
 reference = pytest.importorskip("magpylib")
 
@@ -25,22 +26,6 @@ POLARIZATIONS = {  # in the body frame [T]
     "diametral": np.array([1.1, -0.4, 0.0]),
     "tilted": np.array([0.5, -0.7, 0.9]),
 }
-
-
-def reference_source(body):
-    J_local = body.rotation.T @ body.polarization
-    placement = dict(position=body.center, orientation=Rotation.from_matrix(body.rotation))
-    if body.shape == "cylinder":
-        return reference.magnet.Cylinder(polarization=J_local,
-                                          dimension=(body.diameter, body.height), **placement)
-    if body.shape == "ring":
-        return reference.magnet.CylinderSegment(
-            polarization=J_local,
-            dimension=(body.inner_diameter / 2, body.diameter / 2, body.height, 0, 360),
-            **placement)
-    if body.shape == "block":
-        return reference.magnet.Cuboid(polarization=J_local, dimension=body.size, **placement)
-    return reference.magnet.Sphere(polarization=J_local, diameter=body.diameter, **placement)
 
 
 def make_body(shape, rotation, J_body):
@@ -83,7 +68,7 @@ def test_matches_reference_library(shape, orientation, polarization):
     points = points_outside(body, rng)
     assert len(points) >= 1000
     ours = field_of_body(body, points)
-    theirs = reference_source(body).getB(points)
+    theirs = magpylib_source(body, reference).getB(points)
     magnitude = np.linalg.norm(theirs, axis=1)
     assert np.max(np.abs(np.linalg.norm(ours, axis=1) - magnitude) / magnitude) <= 1e-6
     assert np.max(np.linalg.norm(ours - theirs, axis=1) / magnitude) <= 1e-6
@@ -103,6 +88,6 @@ def test_matches_reference_library_inside(shape):
         local = local[(rho < body.diameter / 2 * 0.95) & (rho > body.inner_diameter / 2 * 1.05)]
     points = body.center + local @ body.rotation.T
     ours = field_of_body(body, points)
-    theirs = reference_source(body).getB(points)
+    theirs = magpylib_source(body, reference).getB(points)
     magnitude = np.linalg.norm(theirs, axis=1)
     assert np.max(np.linalg.norm(ours - theirs, axis=1) / magnitude) <= 1e-6

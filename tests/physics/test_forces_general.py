@@ -18,6 +18,7 @@ from planner.physics.forces import (coaxial_cylinders_axial_force, energy_betwee
                                     force_and_torque_by_charges, interaction_energy,
                                     mirror_in_plane, plate_saturation_check,
                                     steel_surface_force_and_torque)
+from tests.physics.references import magpylib_source, plain_reference
 
 TILT = rotation_from_axis([1.0, 0.3, 1.0])
 PAIRS = {
@@ -167,23 +168,13 @@ magpylib_cases = {
 }
 
 
-def magpylib_object(magpy, body):
-    from scipy.spatial.transform import Rotation
-
-    local = body.rotation.T @ body.polarization
-    kwargs = dict(polarization=local, position=body.center, orientation=Rotation.from_matrix(body.rotation))
-    if body.shape == "cylinder":
-        return magpy.magnet.Cylinder(dimension=(body.diameter, body.height), **kwargs)
-    return magpy.magnet.Cuboid(dimension=body.size, **kwargs)
-
-
 @pytest.mark.parametrize("name", magpylib_cases)
 def test_against_magpylib_meshed_force(name):
     # test-only reference library: magpylib.getFT with a fine mesh of the target, gaps >= 2 mm
     magpy = pytest.importorskip("magpylib")
     source, target = magpylib_cases[name]
     mesh = (48, 12, 12) if target.shape == "cylinder" else (14, 14, 16)
-    force_ref, torque_ref = magpy.getFT(magpylib_object(magpy, source), magpylib_object(magpy, target),
+    force_ref, torque_ref = magpy.getFT(magpylib_source(source, magpy), magpylib_source(target, magpy),
                                         meshing=mesh, eps=1e-8)
     force, torque = force_and_torque_by_charges(target, source)
     assert np.linalg.norm(force - force_ref) <= 5e-3 * np.linalg.norm(force_ref)
@@ -359,28 +350,6 @@ def test_force_and_torque_turn_with_the_pair(name):
 
 
 # --- accuracy of the estimate at the default rtol, against tight references ----------------
-
-def plain_reference(target, source, rtol=1e-8):
-    """Force and torque by the plain adaptive quadrature: two Gauss orders (8, 12), their
-    difference as error estimate, over the general field function; independent of the
-    whole-face first pass, of the extrapolated estimate and of the target-frame field."""
-    from planner.physics.forces.charge_model import in_global_frame, surface_charge_patches
-    from planner.physics.forces.quadrature import adaptive_box_integral
-
-    maps, boxes = surface_charge_patches(target)
-    c, L = target.center, target.bounding_radius
-
-    def integrand(points, weight):
-        B = field_of_body(source, points)
-        values = np.concatenate([B, np.cross(points - c, B) / L], axis=1)
-        return values * weight[:, None]
-
-    def size(v):
-        return np.linalg.norm(v[..., :3], axis=-1) + np.linalg.norm(v[..., 3:], axis=-1)
-    global_maps = [in_global_frame(m, target.rotation, c) for m in maps]
-    total = adaptive_box_integral(global_maps, boxes, integrand, size, rtol=rtol, orders=(8, 12))
-    return total[:3], total[3:] * L
-
 
 SOURCE_CYLINDER = MagnetBody("cylinder", [0, 0, 0], np.eye(3), [0, 0, 1.3], diameter=10e-3, height=5e-3)
 TILT_30 = rotation_from_axis([0.5, 0, np.sqrt(3) / 2])

@@ -26,6 +26,7 @@ from planner.physics.fields import field_of_bodies
 from planner.physics.zones.contours import contour_lines, field_contours, field_grid, plane_grid
 from planner.physics.zones.refine import interpolation_remainder, plane_points, refined_plane_grid
 from tests.physics.polygons import inside
+from tests.physics.references import magpylib_source
 
 RNG = np.random.default_rng(20261202)
 
@@ -247,13 +248,9 @@ def test_interpolation_remainder_bounds_the_exact_field_between_corners(cell):
 
 def test_lines_match_those_of_the_reference_library_field():
     magpylib = pytest.importorskip("magpylib")
-    from scipy.spatial.transform import Rotation
-
     disc = MagnetBody("cylinder", [0.01, 0, 0], rotation_from_axis([1, 0, 1]), [0.8, 0, 0.8],
                       diameter=0.02, height=0.01)
-    source = magpylib.magnet.Cylinder(dimension=(disc.diameter, disc.height), position=disc.center,
-                                      polarization=disc.rotation.T @ disc.polarization,
-                                      orientation=Rotation.from_matrix(disc.rotation))
+    source = magpylib_source(disc, magpylib)
     thresholds = [0.5e-3, 3e-3, 20e-3]
     u, v, magnitude = field_grid([disc], thresholds, "plan", 0.0, 161)
     uu, vv = np.meshgrid(u, v)

@@ -15,7 +15,7 @@ from hazards.findings import (DEFERRAL, SEVERITIES, SEVERITY_MEANINGS, deferral_
 from planner.units import MICRO_ASCII, format_quantity
 from reports.collapse import collapse_rows
 from reports.pdf.formatting import key_label
-from reports.zone_summary import checked_in_every_zone, zone_summaries
+from reports.zone_summary import checked_in_every_zone, largest_field_text, own_limit_name, zone_summaries
 
 __all__ = ["render_terminal"]
 
@@ -157,10 +157,7 @@ def _zones(out, assessment):
     for z in summaries:
         own = [f"{_zone_threshold(tid)} {show_field(value)}" for tid, value in z.checked if tid not in shared]
         described = ", ".join([z.kind, "people" if z.people else "no people"] + own)
-        if not z.bounded:
-            largest = "not bounded: a magnet is in or at the zone"
-        else:
-            largest = show_field(z.largest_field_T) if is_number(z.largest_field_T) else "not known"
+        largest = largest_field_text(z, show_field)
         reached = [f"{_zone_threshold(tid)} {show_field(value)}" + (f" ({show(depth, 'length')} in)" if depth > 0 else "")
                    for tid, value, depth in z.reached]
         out += _wrap(f"{z.zone_id} ({described}): {largest}; reaches {', '.join(reached) if reached else 'none'}",
@@ -169,7 +166,8 @@ def _zones(out, assessment):
 
 def _zone_threshold(threshold_id: str) -> str:
     """A threshold id as printed; a zone's own limit (``desk:instrument_limit``) as ``own instrument_limit``."""
-    return f"own {threshold_id.split(':', 1)[1]}" if ":" in threshold_id else threshold_id
+    own = own_limit_name(threshold_id)
+    return f"own {own}" if own else threshold_id
 
 
 def _pairs(out, assessment):

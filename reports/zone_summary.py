@@ -4,14 +4,24 @@ The assessment (:class:`planner.assessment.ZoneReach`) gives a row for every zon
 field threshold, each repeating the zone's largest field. Printed as they are, a zone's largest
 field appears once per threshold. :func:`zone_summaries` gathers them into one summary per zone:
 its largest field once, the thresholds it was checked against, and those whose regions reach
-it. Shared by the PDF table and the terminal summary; pure, and computes no physics.
+it. Shared by the PDF table and the terminal summary; pure, and computes no physics. Whether a
+threshold reaches a zone, and the zone's largest field, are decided where the rules decide them
+(:func:`hazards.rules.common.reaches`, :func:`hazards.rules.common.largest_zone_field`), so the
+table and the findings cannot disagree; an unknown field counts as reaching.
 """
 from __future__ import annotations
 
 import math
 from dataclasses import dataclass, field
 
-__all__ = ["ZoneSummary", "zone_summaries", "checked_in_every_zone"]
+from hazards.findings import is_number
+from hazards.rules.common import largest_zone_field, reaches
+
+__all__ = ["ZoneSummary", "zone_summaries", "checked_in_every_zone", "UNBOUNDED", "own_limit_name",
+           "largest_field_text"]
+
+#: How a zone without a finite bound on its field is described (a magnet in or at it).
+UNBOUNDED = "not bounded: a magnet is in or at the zone"
 
 
 @dataclass(frozen=True)
@@ -39,8 +49,23 @@ class ZoneSummary:
         return not math.isinf(self.largest_field_T)
 
 
-def _number(value) -> bool:
-    return isinstance(value, (int, float)) and not isinstance(value, bool) and not math.isnan(value)
+def own_limit_name(threshold_id: str) -> str | None:
+    """The name of a zone's own limit in a row's threshold id, None for a table threshold.
+
+    :func:`planner.calculations.keep_out.zone_reaches` writes a zone's own limit as
+    ``<zone id>:instrument_limit``.
+
+    >>> own_limit_name("desk:instrument_limit"), own_limit_name("implant_keep_out")
+    ('instrument_limit', None)
+    """
+    return threshold_id.split(":", 1)[1] if ":" in threshold_id else None
+
+
+def largest_field_text(summary: ZoneSummary, show) -> str:
+    """A zone's largest field as printed: ``show(value)``, :data:`UNBOUNDED`, or ``not known`` (NaN)."""
+    if not summary.bounded:
+        return UNBOUNDED
+    return show(summary.largest_field_T) if is_number(summary.largest_field_T) else "not known"
 
 
 def zone_summaries(rows) -> list[ZoneSummary]:
@@ -54,9 +79,10 @@ def zone_summaries(rows) -> list[ZoneSummary]:
     Returns
     -------
     list of ZoneSummary
-        A threshold counts as reached when its row says so or when the zone's largest field is at
-        or above it (the same rule as the terminal summary always used); the largest field is
-        the largest over the zone's rows (they share it), NaN if any row has none.
+        A threshold counts as reached when :func:`hazards.rules.common.reaches` says so (the row
+        flags it, the zone's largest field is at or above it, or that field is not known); the
+        largest field is :func:`hazards.rules.common.largest_zone_field` of the zone's rows
+        (they share it): infinite kept, NaN if any row has no number.
 
     Examples
     --------
@@ -72,13 +98,12 @@ def zone_summaries(rows) -> list[ZoneSummary]:
         order.setdefault(row.zone_id, []).append(row)
     result = []
     for zone_id, members in order.items():
-        fields = [r.max_field_T for r in members]
-        largest = max(fields) if all(_number(v) for v in fields) else float("nan")
+        largest = largest_zone_field(r.max_field_T for r in members)
         checked, reached = {}, {}
         for r in members:
             checked.setdefault(r.threshold_id, r.threshold_T)
-            if r.reached or (_number(r.max_field_T) and _number(r.threshold_T) and r.max_field_T >= r.threshold_T):
-                depth = r.depth_m if _number(getattr(r, "depth_m", 0.0)) else 0.0
+            if reaches(r.max_field_T, r.threshold_T, r.reached):
+                depth = r.depth_m if is_number(getattr(r, "depth_m", 0.0)) else 0.0
                 previous = reached.get(r.threshold_id)
                 reached[r.threshold_id] = (r.threshold_T, max(depth, previous[1]) if previous else depth)
         first = members[0]

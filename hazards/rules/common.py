@@ -6,13 +6,14 @@ so a rule can never fail on an attribute that is simply absent.
 from __future__ import annotations
 
 import dataclasses
+import math
 
 from hazards.findings import ACTION, Finding, is_number, missing_figure
 from hazards.grouping import name_parts, natural_key
 
 __all__ = ["missing_figure_of", "figures_by_value", "items", "magnet_figures_by_id", "setup_magnets_by_id", "activities_of", "audience_has_children",
            "public_present", "implant_wearers_screened", "reaches", "largest_distance_per_magnet",
-           "zone_max_field"]
+           "zone_max_field", "largest_zone_field"]
 
 
 def missing_figure_of(concern: str, what: str, part: str, checklist: str, severity: str = ACTION) -> Finding:
@@ -127,8 +128,28 @@ def implant_wearers_screened(setup) -> bool:
 
 def reaches(max_field, threshold_value: float, flagged: bool = False) -> bool:
     """True when a zone's largest field reaches a threshold (or the calculation flagged it as
-    reached for this same value); an unknown field counts as reaching it."""
+    reached for this same value); an unknown field (NaN, or infinite: a magnet in or at the
+    zone) counts as reaching it.
+
+    The one place this is decided: the rules and the reports' zone summary
+    (:func:`reports.zone_summary.zone_summaries`) both ask here.
+
+    >>> reaches(2e-6, 5e-4), reaches(7e-4, 5e-4), reaches(float("nan"), 5e-4), reaches(float("inf"), 5e-4)
+    (False, True, True, True)
+    """
     return bool(flagged) or (bool(max_field >= threshold_value) if is_number(max_field) else True)
+
+
+def largest_zone_field(values) -> float:
+    """A zone's largest field over its rows (they share it): infinite kept (a magnet in or at
+    the zone, no bound), NaN when any row has no number or there is no row.
+
+    >>> largest_zone_field([2e-6, 2e-6]), largest_zone_field([math.inf]), largest_zone_field([2e-6, None])
+    (2e-06, inf, nan)
+    """
+    values = list(values)
+    known = [v for v in values if is_number(v) or v == math.inf]
+    return max(known) if values and len(known) == len(values) else math.nan
 
 
 def largest_distance_per_magnet(assessment, threshold_id: str) -> dict[str, float]:
@@ -145,9 +166,6 @@ def largest_distance_per_magnet(assessment, threshold_id: str) -> dict[str, floa
 
 
 def zone_max_field(assessment, zone_id: str):
-    """Largest field in a zone over its reach rows (they share it); None when the zone has no row."""
+    """Largest field in a zone over its reach rows (:func:`largest_zone_field`); None when the zone has no row."""
     values = [r.max_field_T for r in items(assessment, "zone_reach") if getattr(r, "zone_id", None) == zone_id]
-    if not values:
-        return None
-    numbers = [v for v in values if is_number(v)]
-    return max(numbers) if len(numbers) == len(values) else float("nan")
+    return largest_zone_field(values) if values else None

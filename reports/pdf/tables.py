@@ -17,7 +17,7 @@ from reports.collapse import collapse_rows
 from reports.pdf.formatting import key_label, number, quantity, value_text
 from reports.pdf.inputs import ReportInputs
 from reports.pdf.styles import Styles
-from reports.zone_summary import checked_in_every_zone, zone_summaries
+from reports.zone_summary import checked_in_every_zone, largest_field_text, own_limit_name, zone_summaries
 
 _THRESHOLD_UNITS = {"field": "T", "force": "N", "energy": "J", "voltage": "V", "current": "A"}
 
@@ -45,9 +45,8 @@ def threshold_source(assessment, threshold_id: str) -> str:
 
 def _threshold_name(threshold_id: str) -> str:
     """`implant_keep_out` -> 'implant keep out'; `desk:instrument_limit` -> "the zone's own instrument limit"."""
-    if ":" in threshold_id:
-        return f"the zone's own {threshold_id.split(':', 1)[1].replace('_', ' ')} (from the setup)"
-    return threshold_id.replace("_", " ")
+    own = own_limit_name(threshold_id)
+    return f"the zone's own {own.replace('_', ' ')} (from the setup)" if own else threshold_id.replace("_", " ")
 
 
 def _each_of(what: str) -> str:
@@ -154,15 +153,14 @@ def keep_out_table(inputs: ReportInputs, s: Styles) -> list:
 
 def _zone_threshold(threshold_id: str, value: float) -> str:
     """``implant keep out (0.5 mT)``; a zone's own limit: ``its own instrument limit (50 µT, from the setup)``."""
-    if ":" in threshold_id:
-        return f"its own {threshold_id.split(':', 1)[1].replace('_', ' ')} ({quantity(value, 'T')}, from the setup)"
+    own = own_limit_name(threshold_id)
+    if own:
+        return f"its own {own.replace('_', ' ')} ({quantity(value, 'T')}, from the setup)"
     return f"{_threshold_name(threshold_id)} ({quantity(value, 'T')})"
 
 
 def _largest_field(summary) -> str:
-    if not summary.bounded:
-        return "not bounded: a magnet is in or at the zone"
-    return quantity(summary.largest_field_T, "T") if summary.largest_field_T == summary.largest_field_T else "not known"
+    return largest_field_text(summary, lambda tesla: quantity(tesla, "T"))
 
 
 def _reaching(summary) -> str:

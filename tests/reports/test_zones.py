@@ -91,6 +91,25 @@ def test_the_terminal_prints_one_line_per_zone():
         assert sum(line.startswith(zone) for line in lines) == 1
 
 
+def test_a_zone_whose_field_is_not_known_counts_as_reached_as_in_the_rules():
+    # A row without a number (NaN) and the calculation's flag False: the rules count an unknown
+    # field as reaching (hazards.rules.common.reaches), so the table must list every threshold too.
+    from hazards.rules.common import reaches, zone_max_field
+
+    a = sample_assessment()
+    a.zone_reach = ([ZoneReach("aisle", "walkway", tid, value, math.nan, False, True, [])
+                     for tid, value in (("implant_keep_out", KEEP_OUT), ("magnetic_cards", CARDS))]
+                    + _rows("shelf", "store_cupboard", math.inf, people=False))
+    aisle, shelf = zone_summaries(a.zone_reach)
+    assert [tid for tid, _, _ in aisle.reached] == ["implant_keep_out", "magnetic_cards"]
+    assert all(reaches(r.max_field_T, r.threshold_T, r.reached) for r in a.zone_reach)
+    # the rules' largest field is the summary's: NaN stays unknown, infinity (no bound) is kept
+    assert math.isnan(zone_max_field(a, "aisle")) and math.isnan(aisle.largest_field_T)
+    assert zone_max_field(a, "shelf") == shelf.largest_field_T == math.inf
+    lines = " ".join(line.strip() for line in render_terminal(None, a).splitlines())
+    assert "aisle (walkway, people): not known; reaches implant_keep_out 0.5 mT, magnetic_cards 1 mT" in lines
+
+
 @pytest.fixture(scope="module")
 def teaching_lab():
     from tests.conftest import assessed_example

@@ -229,20 +229,34 @@ def _in_own_cell(table, index, points):
     return own <= np.min(distance, axis=1, initial=np.inf)
 
 
+def _lower_values(bodies, index, axes, distance, allowed_error, table):
+    """|B| minus its proven error [T] at ``distance`` (n, k) [m] along ``axes`` (n, 3) from
+    body ``index``'s centre, with the far-field error ``allowed_error`` [T]; -inf at points
+    outside the body's own cell (nearer another centre), which are not its to count."""
+    centre = bodies[index].center
+    points = centre + (distance[..., None] * axes[:, None, :]).reshape(-1, 3)
+    keep = _in_own_cell(table, index, points)
+    lower = np.full(len(points), -np.inf)
+    if keep.any():
+        value, error = field_with_error(bodies, points[keep], allowed_error, table)
+        lower[keep] = value - error
+    return lower.reshape(distance.shape)
+
+
+def _geometric_radii(floor, outer, samples):
+    """``samples`` radii [m] in geometric progression from ``floor`` to ``outer`` (scalar
+    or (n,), giving (samples,) or (n, samples))."""
+    fractions = np.linspace(0.0, 1.0, samples)
+    return floor * (np.asarray(outer, dtype=float)[..., None] / floor) ** fractions
+
+
 def _surely_reached(bodies, index, axes, distance, threshold, table):
     """Which points at ``distance`` (n, k) [m] along ``axes`` (n, 3) surely have |B| >= threshold.
 
     Only points of the body's own cell count (at least as close to its centre as to any
     other); "surely" means the model value minus its proven error.
     """
-    centre = bodies[index].center
-    points = centre + (distance[..., None] * axes[:, None, :]).reshape(-1, 3)
-    keep = _in_own_cell(table, index, points)
-    reached = np.zeros(len(points), bool)
-    if keep.any():
-        value, error = field_with_error(bodies, points[keep], WITNESS_ERROR * threshold, table)
-        reached[keep] = value - error >= threshold
-    return reached.reshape(distance.shape)
+    return _lower_values(bodies, index, axes, distance, WITNESS_ERROR * threshold, table) >= threshold
 
 
 def _bisect_outermost(bodies, index, axes, inner, outer, threshold, best, table, halvings=6):
@@ -277,8 +291,7 @@ def _probe(bodies, index, axes, radii, threshold, samples=10, table=None, inner=
     if not outward.any():
         return inner
     axes, radii = axes[outward], radii[outward]
-    fractions = np.linspace(0.0, 1.0, samples)
-    distance = floor * (radii[:, None] / floor) ** fractions[None, :]
+    distance = _geometric_radii(floor, radii, samples)
     reached = _surely_reached(bodies, index, axes, distance, threshold, table)
     return _outermost_from_samples(bodies, index, axes, distance, reached, threshold, inner, table)
 
@@ -310,15 +323,8 @@ class _RaySamples:
         self.bodies, self.index, self.table = bodies, index, table
         self.directions = fibonacci_directions(count)
         floor = bodies[index].bounding_radius * (1 + 1e-6)
-        fractions = np.linspace(0.0, 1.0, samples)
-        self.distance = np.broadcast_to(floor * (max(reach, floor) / floor) ** fractions, (count, samples))
-        centre = bodies[index].center
-        points = centre + (self.distance[..., None] * self.directions[:, None, :]).reshape(-1, 3)
-        keep = _in_own_cell(table, index, points)
-        lower = np.full(len(points), -np.inf)
-        value, error = field_with_error(bodies, points[keep], WITNESS_ERROR * lowest, table)
-        lower[keep] = value - error
-        self.lower = lower.reshape(self.distance.shape)
+        self.distance = np.broadcast_to(_geometric_radii(floor, max(reach, floor), samples), (count, samples))
+        self.lower = _lower_values(bodies, index, self.directions, self.distance, WITNESS_ERROR * lowest, table)
 
     def farthest(self, threshold):
         """Farthest radius [m] found at ``threshold`` on these rays (0 if none)."""

@@ -7,6 +7,9 @@
   height, start and end angle in degrees), a cuboid by its edge lengths, a sphere by its
   diameter. Our MagnetBody holds J in the global frame, so it is turned into the body frame
   before it is handed over.
+* :func:`sphere`: a uniformly magnetized sphere, whose exterior field is exactly that of a
+  point dipole of moment J V / mu0 (Jackson, Classical Electrodynamics, 3rd ed. (1999),
+  section 5.10, eq. 5.56): the body of the dipole checks of the zone tests.
 * :func:`plain_reference`: force and torque by the plain adaptive quadrature, independent of
   the program's whole-face first pass, its extrapolated error estimate and its target-frame
   field.
@@ -15,7 +18,13 @@ from __future__ import annotations
 
 import numpy as np
 
+from planner.physics.bodies import MagnetBody
 from planner.physics.fields import field_of_body
+
+
+def sphere(centre, polarization, diameter=0.01):
+    """A sphere of ``diameter`` [m] at ``centre`` [m], uniformly polarized ``polarization`` [T]."""
+    return MagnetBody("sphere", centre, np.eye(3), polarization, diameter=diameter)
 
 
 def magpylib_source(body, magpylib=None):

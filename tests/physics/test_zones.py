@@ -17,12 +17,9 @@ from planner.physics.fields import field_of_bodies
 from planner.physics.zones import field_contours, keep_out_radius, zone_reach
 from planner.physics.zones.keep_out import keep_out_radii
 from tests.physics.polygons import inside, polygon_area
+from tests.physics.references import sphere
 
 RNG = np.random.default_rng(20261201)
-
-
-def sphere(centre, polarization, diameter=0.01):
-    return MagnetBody("sphere", centre, np.eye(3), polarization, diameter=diameter)
 
 
 def on_axis_radius(moment, threshold):

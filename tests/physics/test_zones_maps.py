@@ -25,14 +25,10 @@ from planner.physics.bodies import MagnetBody, rotation_from_axis
 from planner.physics.fields import field_of_bodies
 from planner.physics.zones.contours import contour_lines, field_contours, field_grid, plane_grid
 from planner.physics.zones.refine import interpolation_remainder, plane_points, refined_plane_grid
-from tests.physics.polygons import inside
-from tests.physics.references import magpylib_source
+from tests.physics.polygons import inside, polygon_area
+from tests.physics.references import magpylib_source, sphere
 
 RNG = np.random.default_rng(20261202)
-
-
-def sphere(centre, polarization, diameter=0.01):
-    return MagnetBody("sphere", centre, np.eye(3), polarization, diameter=diameter)
 
 
 def bench_layout(count, seed):
@@ -164,7 +160,7 @@ def test_single_dipole_lines_follow_the_analytic_contour(moment_direction):
         # Jackson eq. 5.56: within a grid spacing of the exact line, and not inside it by more.
         assert np.abs(radius - exact).max() <= spacing
         assert (radius - exact).min() >= -spacing
-        areas.append(0.5 * abs(np.sum(line[:-1, 0] * line[1:, 1] - line[1:, 0] * line[:-1, 1])))
+        areas.append(polygon_area(line))
     assert areas[0] > areas[1] > areas[2]  # |B| >= 4 mT implies |B| >= 1 mT >= 0.5 mT: nested
 
 

@@ -25,8 +25,10 @@ import numpy as np
 
 from planner.physics.bodies import MagnetBody
 from planner.physics.constants import mu_0
-from planner.physics.forces.face_rules import (INTERVAL_POINTS, field_in_frame_of,
-                                               first_pass_size, whole_face_rule)
+from planner.physics.fields.chunking import without_rounding_noise
+from planner.physics.forces.face_rules import (INTERVAL_POINTS, PLAIN_DIFFERENCE_ROWS, ROW_WIDTH,
+                                               ROWS_PER_FACE, field_in_frame_of, first_pass_size,
+                                               whole_face_rule)
 from planner.physics.forces.quadrature import adaptive_box_integral
 from planner.physics.forces.quadrature_rules import extrapolated_error
 
@@ -256,21 +258,22 @@ def force_and_torque_by_charges(target: MagnetBody, source: MagnetBody, rtol: fl
     # first pass: the whole-face rule on every face, in one field call; each face's error
     # is the sum over its two parameters of the error extrapolated from the coarser rules
     sums = rule.moments.dot(local_field(rule.points).ravel())  # .dot: less overhead than @
-    total = sums[:6]
+    total = sums[:ROW_WIDTH]
     values = sums.tolist()
-    fx, fy, fz, tx, ty, tz = values[:6]
+    fx, fy, fz, tx, ty, tz = values[:ROW_WIDTH]
     bound = rtol * (math.hypot(fx, fy, fz) + math.hypot(tx, ty, tz))
     # The plain differences Q_full - Q_once of every face and parameter, never below the
-    # extrapolated estimate, often meet the bound already. They are rows 1 and 3 of each
-    # face's block of five (whole_face_rule), each row holding F then T / R; summed here
-    # on Python floats, which for these few numbers is quicker than array reductions.
+    # extrapolated estimate, often meet the bound already (rows of the layout in
+    # face_rules); summed here on Python floats, which for these few numbers is quicker
+    # than array reductions.
     plain = 0.0
-    for face_start in range(6, len(values), 30):
-        for row in (face_start + 6, face_start + 18):
-            plain += math.hypot(*values[row:row + 3]) + math.hypot(*values[row + 3:row + 6])
+    for face_start in range(ROW_WIDTH, len(values), ROWS_PER_FACE * ROW_WIDTH):
+        for row in PLAIN_DIFFERENCE_ROWS:
+            at = face_start + row * ROW_WIDTH
+            plain += math.hypot(*values[at:at + 3]) + math.hypot(*values[at + 3:at + 6])
     if plain <= bound:
         return _turned_to_global(total, target.rotation, length)
-    per_face = sums[6:].reshape(-1, 5, 6)
+    per_face = sums[ROW_WIDTH:].reshape(-1, ROWS_PER_FACE, ROW_WIDTH)
     differences = per_face[:, 1:].reshape(-1, 2, 2, 2, 3)  # face, parameter, difference, F|T
     sizes = np.sqrt((differences * differences).sum(axis=4)).sum(axis=3)
     error = extrapolated_error(sizes[:, :, 0], sizes[:, :, 1]).sum(axis=1)
@@ -320,12 +323,11 @@ def _size(values):
 def _rule_key(body: MagnetBody):
     """What the body-frame quadrature rule of ``body`` depends on, as a hashable tuple.
 
-    Polarization components below 1e-12 of the largest (rounding left by rotations) are
-    set to zero, so that no face with a vanishing charge is integrated.
+    Polarization components that are only rounding left by rotations are set to zero
+    (:func:`~planner.physics.fields.chunking.without_rounding_noise`), so that no face with
+    a vanishing charge is integrated.
     """
-    J = body.polarization_body.tolist()
-    floor = 1e-12 * max(map(abs, J))
-    J = tuple(v if abs(v) > floor else 0.0 for v in J)
+    J = tuple(without_rounding_noise(body.polarization_body).tolist())
     return (body.shape, float(body.diameter), float(body.height), float(body.inner_diameter),
             tuple(body.size.tolist()), J)
 

@@ -80,6 +80,14 @@ def first_pass_size(target: MagnetBody, source: MagnetBody) -> tuple[int, int]:
     return RULE_TIERS[-1][1]
 
 
+#: Layout of ``WholeFaceRule.moments @ B.ravel()``: rows of F then T / R (6 numbers), row 0
+#: the total and then ROWS_PER_FACE rows per face (its integral and the four differences).
+ROW_WIDTH = 6
+ROWS_PER_FACE = 5
+#: Rows of a face's block holding Q_full - Q_once along parameter 0 and along parameter 1.
+PLAIN_DIFFERENCE_ROWS = (1, 3)
+
+
 class WholeFaceRule(NamedTuple):
     """A body's charged faces with the whole-face rule on them, in the body frame."""
 
@@ -164,16 +172,16 @@ def whole_face_rule(shape: str, diameter: float, height: float, inner_diameter: 
     points = np.concatenate([points for points, _ in blocks])
     # row 0 the total over all faces by the full rule; then per face its full rule and
     # its 4 differences
-    weights = np.zeros((1 + 5 * len(faces), len(points)))
+    weights = np.zeros((1 + ROWS_PER_FACE * len(faces), len(points)))
     start = 0
     for f, (face_points, scaled) in enumerate(blocks):
         stop = start + len(face_points)
         weights[0, start:stop] = scaled[:, 0]
-        weights[1 + 5 * f:6 + 5 * f, start:stop] = scaled.T
+        weights[1 + ROWS_PER_FACE * f:1 + ROWS_PER_FACE * (f + 1), start:stop] = scaled.T
         start = stop
     length = body.bounding_radius
     # force rows: sum_i w_i B_i; torque rows: sum_i w_i (r_i x B_i) / R, r x B = [r]_x B
-    moments = np.zeros((len(weights), 6, len(points), 3))
+    moments = np.zeros((len(weights), ROW_WIDTH, len(points), 3))
     for k in range(3):
         moments[:, k, :, k] = weights
     lever = points / length
@@ -181,7 +189,7 @@ def whole_face_rule(shape: str, diameter: float, height: float, inner_diameter: 
         after, following = (row + 1) % 3, (row + 2) % 3
         moments[:, 3 + row, :, following] = weights * lever[:, after]
         moments[:, 3 + row, :, after] = -weights * lever[:, following]
-    moments = moments.reshape(len(weights) * 6, len(points) * 3)
+    moments = moments.reshape(len(weights) * ROW_WIDTH, len(points) * 3)
     points.flags.writeable = False
     moments.flags.writeable = False
     return WholeFaceRule(maps, faces, points, moments, length)

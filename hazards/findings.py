@@ -25,7 +25,7 @@ from planner.units import MICRO_ASCII, format_flux_density, format_number, forma
 
 __all__ = ["Finding", "SEVERITIES", "BLOCKING", "ACTION", "NOTE", "severity_rank", "DEFERRAL",
            "deferral_line", "show", "show_field", "threshold_text", "source_entry", "threshold_map",
-           "missing_figure", "is_number", "plain_number"]
+           "missing_figure", "is_number", "plain_number", "sentence"]
 
 BLOCKING, ACTION, NOTE = "blocking", "action", "note"
 #: Severities from least to most pressing.
@@ -119,6 +119,24 @@ _UNITS = {
     "mass": ("kg", 1.0, ("k", "")),
     "moment": ("A m^2", 1.0, ("",)),
 }
+
+
+def sentence(text: str) -> str:
+    """A remark as a sentence: ``the load gets 1 V`` -> ``The load gets 1 V.``; empty stays empty.
+
+    Only a first word of lower-case letters is capitalised, so an id or a symbol (``mu0``) that
+    opens a remark stays as written; a remark already ending a sentence gets no second stop.
+
+    >>> sentence("the load gets 1 V"), sentence("mu0 sigma d is large"), sentence("the coil is warm.")
+    ('The load gets 1 V.', 'mu0 sigma d is large.', 'The coil is warm.')
+    """
+    text = text.strip()
+    if not text:
+        return ""
+    first = text.split(" ", 1)[0]
+    if first.isalpha() and first.islower():
+        text = text[0].upper() + text[1:]
+    return text if text.endswith((".", "!", "?")) else text + "."
 
 
 def plain_number(value: float) -> str:

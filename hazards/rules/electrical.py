@@ -1,10 +1,8 @@
 """Induction demonstrations: voltages against the hazardous-live limits, meters, stored energy, mains."""
 from __future__ import annotations
 
-import re
-
-from hazards.findings import ACTION, BLOCKING, NOTE, Finding, is_number, show, source_entry, threshold_map, \
-    threshold_text
+from hazards.findings import ACTION, BLOCKING, NOTE, Finding, is_number, sentence, show, source_entry, \
+    threshold_map, threshold_text
 from hazards.rules.common import activities_of, items, missing_figure_of
 
 CONCERN = "electrical"
@@ -55,10 +53,9 @@ def electrical(setup, assessment, thresholds) -> list:
     for row in figures:
         values = row.values if isinstance(row.values, dict) else {}
         findings += _voltages(row, values, limits, chosen)
-        meter = _meter(row, values)
-        findings += meter
+        findings += _meter(row, values)
         findings += _stored(row, values, table)
-        remarks = _remarks(row.warnings, _meter_ratio(values) if meter else None)
+        remarks = [s for s in map(sentence, map(str, row.warnings)) if s]
         if remarks:
             findings.append(Finding(
                 id=f"electrical.{row.activity_id}.remarks", severity=NOTE, concern=CONCERN,
@@ -89,42 +86,6 @@ def _voltages(row, values, limits, chosen) -> list:
                        "the point of the demonstration."],
             sources=[source_entry(limit)]))
     return found
-
-
-#: The calculation's remark that a meter goes past full scale; the meter finding says the same.
-_METER_REMARK = re.compile(r"the meter would be driven to (?P<ratio>[0-9]+(?:\.[0-9]+)?) times its full scale\.?")
-
-
-def _remarks(warnings, meter_ratio) -> list[str]:
-    """The calculation's remarks as sentences, without the meter remark the meter finding restates.
-
-    Each remark becomes its own sentence (first word capitalised, a full stop at the end), so two
-    remarks never run together. A remark that the meter is driven past full scale is left out
-    when ``meter_ratio`` (the ratio of this activity's meter finding, None without one) is the
-    same number: the remark gives it to one decimal, so they agree within 0.05.
-    """
-    sentences = []
-    for warning in map(str, warnings):
-        said = _METER_REMARK.fullmatch(warning.strip())
-        if said and meter_ratio is not None and abs(float(said.group("ratio")) - meter_ratio) <= 0.05 + 1e-9:
-            continue
-        sentences.append(_sentence(warning))
-    return [s for s in sentences if s]
-
-
-def _sentence(text: str) -> str:
-    """A remark as a sentence: ``the load gets 1 V`` -> ``The load gets 1 V.``
-
-    Only a first word of lower-case letters is capitalised, so an id or a symbol (``mu0``) that
-    opens a remark stays as written.
-    """
-    text = text.strip()
-    if not text:
-        return ""
-    first = text.split(" ", 1)[0]
-    if first.isalpha() and first.islower():
-        text = text[0].upper() + text[1:]
-    return text if text.endswith((".", "!", "?")) else text + "."
 
 
 def _meter_ratio(values):

@@ -164,14 +164,16 @@ def _remarks(warnings, values=None):
     return ids(electrical(setup, assessment(magnets=[magnet()], induction=[figures]), list(T.values())))
 
 
-def test_a_remark_that_only_repeats_the_meter_finding_is_not_written():
-    found = _remarks(["the meter would be driven to 17.9 times its full scale"])
+def test_a_meter_past_full_scale_is_said_by_the_finding_not_by_a_remark():
+    # The calculation writes no remark for it (planner/calculations/induction.py): the rule reads
+    # the figure peak_to_full_scale, so no remark repeats the finding.
+    found = _remarks([])
     assert "electrical.run.remarks" not in found
     assert found["electrical.run.meter"].figures[-1] == ("peak / full scale", "17.9")   # the finding says it
 
 
-def test_a_meter_remark_with_another_number_or_without_a_meter_finding_is_kept():
-    # 30.0 is not 17.9 to one decimal: the remark says something the finding does not
+def test_every_remark_of_the_calculation_is_kept_as_written():
+    # the rule no longer reads the remarks' words: a remark about the meter is kept like any other
     found = _remarks(["the meter would be driven to 30.0 times its full scale"])
     assert found["electrical.run.remarks"].why == "The meter would be driven to 30.0 times its full scale."
     # no ratio and no currents among the figures: no meter finding, so the remark is the only place it is said
@@ -181,10 +183,9 @@ def test_a_meter_remark_with_another_number_or_without_a_meter_finding_is_kept()
 
 
 def test_each_remark_is_its_own_sentence():
-    found = _remarks(["the meter would be driven to 17.9 times its full scale",
-                      "the block is modelled as a round magnet of the same volume and height",
+    found = _remarks(["the block is modelled as a round magnet of the same volume and height",
                       "the speed is not small against 2/(mu0 sigma d): the low-speed drag overstates the braking"])
-    # Written out by hand: capital letter, full stop, and the restated meter remark left out.
+    # Written out by hand: capital letter, full stop (hazards.findings.sentence).
     assert found["electrical.run.remarks"].why == (
         "The block is modelled as a round magnet of the same volume and height. The speed is not small against "
         "2/(mu0 sigma d): the low-speed drag overstates the braking.")

@@ -31,11 +31,13 @@ import numpy as np
 from planner.physics.bodies import MagnetBody
 from planner.physics.fields.chunking import in_blocks
 from planner.physics.fields.cuboid import block_field, block_on_axis_field
+from planner.physics.fields.elliptic import FULL_ACCURACY
 from planner.physics.fields.cylinder import cylinder_field, cylinder_on_axis_field, ring_field
 from planner.physics.fields.sphere import dipole_field, far_field, sphere_field
 
 __all__ = [
     "field_of_body",
+    "body_frame_field",
     "field_and_jacobian",
     "field_of_bodies",
     "cylinder_field",
@@ -99,14 +101,38 @@ def second_moments(body: MagnetBody) -> np.ndarray:
     return np.diag(diagonal)
 
 
-def _body_frame_field(body: MagnetBody, local_points: np.ndarray,
-                      polarization: np.ndarray) -> np.ndarray:
-    """Exact closed-form field of ``body`` at body-frame points (m, 3) [T], body frame."""
+def body_frame_field(body: MagnetBody, local_points: np.ndarray, polarization: np.ndarray,
+                     accuracy: float = FULL_ACCURACY) -> np.ndarray:
+    """Exact closed-form field of ``body``'s shape at body-frame points, in the body frame.
+
+    Parameters
+    ----------
+    body : MagnetBody
+        Its shape and sizes are used; its position and rotation are not.
+    local_points : array (m, 3)
+        Points in the body frame [m].
+    polarization : array (3,)
+        J in the body frame [T].
+    accuracy : float
+        For cylinders and rings, the relative accuracy of their elliptic integrals
+        (:func:`cylinder_field`); default double precision. Blocks and spheres are exact.
+
+    Returns
+    -------
+    ndarray (m, 3)
+        B [T] in the body frame.
+
+    Examples
+    --------
+    >>> ball = MagnetBody("sphere", [0, 0, 0], np.eye(3), [0, 0, 1.2], diameter=0.01)
+    >>> round(float(body_frame_field(ball, np.zeros((1, 3)), np.array([0, 0, 1.2]))[0, 2]), 6)  # 2J/3 inside
+    0.8
+    """
     if body.shape == "cylinder":
-        return cylinder_field(local_points, body.diameter, body.height, polarization)
+        return cylinder_field(local_points, body.diameter, body.height, polarization, accuracy)
     if body.shape == "ring":
         return ring_field(local_points, body.diameter, body.inner_diameter, body.height,
-                          polarization)
+                          polarization, accuracy)
     if body.shape == "block":
         return block_field(local_points, body.size, polarization)
     return sphere_field(local_points, body.diameter, polarization)
@@ -120,16 +146,16 @@ def _field_of_body_block(points, body, polarization, rotation, far_radius, momen
     if rotation is not None:
         local = local @ rotation
     if far_radius is None:
-        local_field = _body_frame_field(body, local, polarization)
+        local_field = body_frame_field(body, local, polarization)
     else:
         far = np.einsum("ij,ij->i", local, local) > far_radius * far_radius
         if not far.any():
-            local_field = _body_frame_field(body, local, polarization)
+            local_field = body_frame_field(body, local, polarization)
         else:
             local_field = np.empty_like(local)
             near = ~far
             if near.any():
-                local_field[near] = _body_frame_field(body, local[near], polarization)
+                local_field[near] = body_frame_field(body, local[near], polarization)
             local_field[far] = far_field(local[far], body.volume, moments, polarization)
     if rotation is not None:
         local_field = local_field @ rotation.T

@@ -29,8 +29,7 @@ from typing import NamedTuple
 import numpy as np
 
 from planner.physics.bodies import MagnetBody
-from planner.physics.fields import (FAR_FIELD_RADII, block_field, cylinder_field, field_of_body,
-                                    ring_field, sphere_field)
+from planner.physics.fields import FAR_FIELD_RADII, body_frame_field, field_of_body
 from planner.physics.fields.elliptic import FULL_ACCURACY
 from planner.physics.fields.multipole import (MAX_RATIO, axisymmetric_series_field,
                                               cached_zonal_moments, terms_needed)
@@ -219,8 +218,8 @@ def field_in_frame_of(target: MagnetBody, source: MagnetBody, field=None, accura
     Notes
     -----
     A target-frame point p is q = R_s^T R_t p + R_s^T (c_t - c_s) in the source's frame,
-    where the closed form of the source's shape is evaluated directly (cylinder, ring,
-    block, sphere of :mod:`planner.physics.fields`), and B turns back with
+    where the closed form of the source's shape is evaluated directly
+    (:func:`planner.physics.fields.body_frame_field`), and B turns back with
     B_t = R_t^T R_s B_s: one frame change for the pair instead of two. Where every point
     of the target is at least R_source / ``MAX_RATIO`` from the centre of a cylinder or ring
     source, its exterior multipole series replaces the closed form
@@ -255,18 +254,9 @@ def field_in_frame_of(target: MagnetBody, source: MagnetBody, field=None, accura
 
         def closed_form(q):
             return axisymmetric_series_field(q, moments, radius, J)
-    elif source.shape == "cylinder":
-        def closed_form(q):
-            return cylinder_field(q, source.diameter, source.height, J, accuracy)
-    elif source.shape == "ring":
-        def closed_form(q):
-            return ring_field(q, source.diameter, source.inner_diameter, source.height, J, accuracy)
-    elif source.shape == "block":
-        def closed_form(q):
-            return block_field(q, source.size, J)
     else:
         def closed_form(q):
-            return sphere_field(q, source.diameter, J)
+            return body_frame_field(source, q, J, accuracy)
     turn_back = rotation.T.dot(source.rotation)  # turn.T
     return lambda points: closed_form(points.dot(turn_back) + shift).dot(turn)
 

@@ -2,8 +2,9 @@
 
     python benchmarks/zones.py [--magnets 30] [--resolution 400]
 
-Times (1) keep-out distances for every magnet at the default thresholds 0.1, 0.5, 1, 2, 3, 6
-and 400 mT, as the program computes them (``keep_out_table``: one worker process per core;
+Times (1) keep-out distances for every magnet at the default thresholds, read from
+hazards/thresholds.yaml (0.1, 0.5, 1, 2, 3, 6 and 400 mT when this was written), as the program
+computes them (``keep_out_table``: one worker process per core;
 ``--workers 1`` for one core), and (2) a plan map of the total field on a resolution x resolution grid with its
 contours at the same thresholds. Targets: under 1 s each. The layout is invented for the
 benchmark: discs and blocks of N35-N52 and ferrite spaced along a 2 m bench.
@@ -15,10 +16,16 @@ import time
 
 import numpy as np
 
+from hazards.thresholds import effective_thresholds
+from planner.calculations.keep_out import KEEP_OUT_THRESHOLDS, field_thresholds
 from planner.physics.bodies import MagnetBody, rotation_from_axis
 from planner.physics.zones import available_workers, field_contours, keep_out_table
+from planner.setup.model import SiteRules
 
-DEFAULT_THRESHOLDS = np.array([0.1, 0.5, 1, 2, 3, 6, 400]) * 1e-3
+#: The distinct field values [T] that get a keep-out distance with no site overrides, taken from
+#: hazards/thresholds.yaml the way planner.calculations.keep_out.PendingKeepOut takes them.
+DEFAULT_THRESHOLDS = np.unique([t.value for t in field_thresholds(effective_thresholds(SiteRules()))
+                                if t.id in KEEP_OUT_THRESHOLDS])
 
 
 def layout(count, seed=5):

@@ -314,20 +314,19 @@ def field_vector_with_error(bodies, points, allowed_error, table=None):
     return model_field(bodies, points, far, table), error
 
 
-def _ball_geometry(bodies, points, table=None, centre_distance=None, exact=True):
+def _ball_geometry(bodies, points, table=None, centre_distance=None):
     """Per point and body: centre distance d, distance D to the solid, and body constants.
 
     D is computed exactly only for bodies that some point sees within ten bounding radii
     of their centre; for the others its lower bound d - a is used (the body lies inside
     its bounding sphere), which can only make the bounds built on it larger, by at most
     a factor (d / (d - a))^(n+1) <= 1.12^(n+1) in far terms that are themselves small.
-    ``exact=False`` uses d - a for every body (cheaper; the bounds stay valid, only looser).
     """
     table = body_table(bodies, table)
     if centre_distance is None:
         centre_distance = table.centre_distances(points)
     solid_distance = np.maximum(centre_distance - table.reach, 0.0)
-    near = np.any(centre_distance < 10 * table.reach, axis=0) if exact else np.zeros(len(table.bodies), bool)
+    near = np.any(centre_distance < 10 * table.reach, axis=0)
     for i in np.flatnonzero(near):
         solid_distance[:, i] = distance_to_body(table.bodies[i], points)
     return (centre_distance, solid_distance, table.moments, table.reach, table.shift, table.flat,

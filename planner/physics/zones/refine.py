@@ -135,7 +135,7 @@ def interpolation_remainder(bodies, centres, width, depth, table=None):
     spread = 0.5 * np.hypot(width, depth)
     # The shared bound on ||D^2 B|| (its volume form is the sum above; the surface form can
     # only lower it); solid distances taken as d - a, which needs no per-cell geometry.
-    geometry = _ball_geometry(bodies, centres, table, exact=False)
+    geometry = _ball_geometry(bodies, centres, table)
     return (width**2 + depth**2) / 8 * derivative_bound(geometry, spread, 2)
 
 

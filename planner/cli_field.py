@@ -33,9 +33,6 @@ def _plane(text: str, option: str = "--grid") -> tuple[int, float]:
         raise UserInputError(f"{option} `{text}`: {error}") from None
 
 
-_MAP_PLANE_AXIS = {"plan": 2, "elevation": 1}  # a plan is a plane z = const, an elevation y = const
-
-
 def _csv(points: np.ndarray, values: np.ndarray) -> str:
     buffer = io.StringIO()
     writer = csv.writer(buffer, lineterminator="\n")
@@ -74,9 +71,11 @@ def field(setup_file, at, along, grid, span, samples, map_view, plane, out):
         raise UserInputError("--plane chooses the plane of --map; for a grid of values use --grid")
     offset = None
     if plane:
+        from planner.physics.zones.refine import VIEWS   # (across, up, normal) axes of each view
+
         axis, offset = _plane(plane, "--plane")
-        if axis != _MAP_PLANE_AXIS[map_view]:
-            wanted = "xyz"[_MAP_PLANE_AXIS[map_view]]
+        if axis != VIEWS[map_view][2]:
+            wanted = "xyz"[VIEWS[map_view][2]]
             raise UserInputError(f"--plane `{plane}`: a {map_view} map lies in a plane {wanted}=..., "
                                  f"such as `{wanted}=0 mm`")
     setup = load_setup(setup_file)

@@ -7,6 +7,7 @@ from planner import __version__
 from planner.assessment import Assessment
 from planner.calculations.keep_out import MAP_THRESHOLDS, contours, keep_out_distances
 from planner.cli import UserInputError
+from planner.physics.zones.refine import VIEWS
 from planner.setup import Setup, site_rules_of
 
 
@@ -32,7 +33,7 @@ def write_map(setup: Setup, view: str, out: Path, offset: float | None = None) -
     if not scenes:
         where = ""
         if assessment.contours:
-            axis = "z" if view == "plan" else "y"
+            axis = "xyz"[VIEWS[view][2]]     # the plane's normal: z of a plan, y of an elevation
             where = f" ({axis} = {assessment.contours[0].plane_offset_m * 1e3:g} mm)"
         raise UserInputError(f"no keep-out line crosses the {view} plane{where}: the field stays below every "
                              "map threshold there; nothing to draw")

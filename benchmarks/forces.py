@@ -7,8 +7,8 @@ For each arrangement (coaxial, offset, tilted) and gap (1, 5, 20 mm) it reports:
   against a tight reference computed independently of its first pass and error estimate:
   adaptive tensor Gauss-Legendre quadrature (orders 8 and 12, the plain difference as error
   estimate) at rtol = 1e-10 over the general field function (the tests' plain_reference in
-  tests/physics/references.py), which agrees with the exact closed form of Vokoun et al. to
-  ~1e-10 for the coaxial pairs;
+  tests/physics/references.py), which agrees with the closed form of Vokoun et al. to
+  2.3-2.7e-9 for the coaxial pairs (measured);
 - the smallest magpylib meshing (test-only reference library, magpylib.getFT) from a
   geometric ladder starting at 10 cells whose force error is within 0.1 %, and its time;
 - the time of one call of the source's closed-form field at the first pass's nodes (168 to

@@ -172,10 +172,15 @@ def _terms_on_grid(ratio: float, tolerance: float, shape: tuple | None) -> int:
 EXACT_DEGREES = 100
 
 
+#: Largest R / r and number of grid cells of the tabulated derivative-bound factors.
+FACTOR_MAX_RATIO = 0.85
+FACTOR_CELLS = 512
+
+
 @lru_cache(maxsize=256)
 def derivative_bound_factors(radius: float, inner_radius: float, half_height: float,
-                             orders: tuple = (0, 1, 2, 3), max_ratio: float = 0.85,
-                             cells: int = 512) -> np.ndarray:
+                             orders: tuple = (0, 1, 2, 3), max_ratio: float = FACTOR_MAX_RATIO,
+                             cells: int = FACTOR_CELLS) -> np.ndarray:
     """Factors S_n(q) of the bounds ||D^n B|| <= (n+2)! k m S_n(R/r) / r^(n+3), tabulated.
 
     Parameters

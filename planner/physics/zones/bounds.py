@@ -100,9 +100,9 @@ class SeriesFactors:
     """
 
     def __init__(self, bodies):
-        from planner.physics.fields.multipole import derivative_bound_factors
+        from planner.physics.fields.multipole import FACTOR_CELLS, FACTOR_MAX_RATIO, derivative_bound_factors
 
-        self.max_ratio, self.cells = 0.85, 512
+        self.max_ratio, self.cells = FACTOR_MAX_RATIO, FACTOR_CELLS
         rows, tables = [], []
         for body in bodies:
             if body.shape in ("cylinder", "ring"):

@@ -14,12 +14,15 @@ import os
 import sys
 import time
 import tracemalloc
+from pathlib import Path
 
 import numpy as np
-from scipy.spatial.transform import Rotation
 
 from planner.physics.bodies import MagnetBody, rotation_from_axis
 from planner.physics.fields import field_of_body
+
+sys.path.insert(0, str(Path(__file__).resolve().parents[1]))  # the repository root, for tests.physics
+from tests.physics.references import magpylib_source  # noqa: E402
 
 TURN = rotation_from_axis([0.3, -0.5, 0.8])
 CASES = [
@@ -37,22 +40,6 @@ CASES = [
                                             size=[0.02, 0.01, 0.03])),
     ("sphere", MagnetBody("sphere", [0, 0, 0], np.eye(3), [0, 0, 1.3], diameter=0.02)),
 ]
-
-
-def reference_source(magpylib, body):
-    J_local = body.rotation.T @ body.polarization
-    placement = dict(position=body.center, orientation=Rotation.from_matrix(body.rotation))
-    if body.shape == "cylinder":
-        return magpylib.magnet.Cylinder(polarization=J_local,
-                                         dimension=(body.diameter, body.height), **placement)
-    if body.shape == "ring":
-        return magpylib.magnet.CylinderSegment(
-            polarization=J_local,
-            dimension=(body.inner_diameter / 2, body.diameter / 2, body.height, 0, 360),
-            **placement)
-    if body.shape == "block":
-        return magpylib.magnet.Cuboid(polarization=J_local, dimension=body.size, **placement)
-    return magpylib.magnet.Sphere(polarization=J_local, diameter=body.diameter, **placement)
 
 
 def timed_pair(first, second, repeats=5):
@@ -79,7 +66,7 @@ def main(count=10**6):
     print(f"{'case':30s} {'ours [pt/s]':>12s} {'magpylib':>12s} {'ratio':>6s} "
           f"{'max rel diff':>12s} {'peak MB':>8s}")
     for name, body in CASES:
-        source = reference_source(magpylib, body)
+        source = magpylib_source(body, magpylib)
         (ours_time, theirs_time), (ours, theirs) = timed_pair(
             lambda: field_of_body(body, points), lambda: source.getB(points))
         magnitude = np.linalg.norm(theirs, axis=1)

@@ -90,6 +90,16 @@ class BodyTable:
         offset = points[:, None, :] - self.centres[None]
         return np.sqrt(np.einsum("nbk,nbk->nb", offset, offset))
 
+    def subset(self, indices):
+        """The table of the bodies ``indices`` (in that order), sharing this one's series tables."""
+        indices = np.asarray(indices, dtype=np.intp)
+        part = object.__new__(BodyTable)
+        part.bodies = [self.bodies[i] for i in indices]
+        for name in ("vectors", "moments", "centres", "reach", "square", "shift", "flat", "curved"):
+            setattr(part, name, getattr(self, name)[indices])
+        part.series = self.series.subset(indices)
+        return part
+
 
 class SeriesFactors:
     """Multipole-series factors of the derivative bounds, for the cylinders and rings of a list.
@@ -119,6 +129,13 @@ class SeriesFactors:
         self.flat = [np.concatenate([table[:, order].ravel(), np.full(self.cells + 1, np.inf)])
                      for order in range(4)]
         self.sentinel = len(tables) * (self.cells + 1)
+
+    def subset(self, indices):
+        """The factors of the bodies ``indices`` (their rows; the tables are shared, not copied)."""
+        part = object.__new__(SeriesFactors)
+        part.__dict__.update(self.__dict__)
+        part.row = self.row[np.asarray(indices, dtype=np.intp)]
+        return part
 
     def usable(self, rows):
         """Whether any of these bodies (rows, as gathered per point) has a series."""
@@ -210,27 +227,34 @@ def dipole_remainders(table, distance):
 
     Notes
     -----
-    The Taylor remainders of the multipole expansion, 12 k m s^2 / (d - a)^5 and
-    60 k m s^2 / (d - a)^6 (a = 0 for a sphere, whose s^2 is 0), and for cylinders and
-    rings the smaller sums of the series' terms of degree 2 and up,
-    2 k m (S_0 - 1) / d^3 and 6 k m (S_1 - 1) / d^4 (the dipole is the l = 0 term; often
-    100x smaller); see the module docstring. Both fall as d grows, so a bound at the
-    smallest distance of a region holds over all of it.
+    Orders 0 and 1 of :func:`dipole_remainder`.
+    """
+    return dipole_remainder(table, distance, 0), dipole_remainder(table, distance, 1)
+
+
+def dipole_remainder(table, distance, order):
+    """Bound on ||D^order (B - B_dipole)|| [T/m^order] of each body at ``distance`` (..., b) [m].
+
+    Notes
+    -----
+    The Taylor remainder of the multipole expansion, (order + 4)!/2 k m s^2 / (d - a)^(order + 5)
+    (12 and 60 for the field and its gradient; a = 0 for a sphere, whose s^2 is 0), and for
+    cylinders and rings the smaller sum of the series' terms of degree 2 and up,
+    (order + 2)! k m (S_order - 1) / d^(order + 3) (the dipole is the l = 0 term; often 100x
+    smaller); see the module docstring. Both fall as d grows, so a bound at the smallest
+    distance of a region holds over all of it; +inf within a body's bounding sphere.
     """
     moments, reach, square = table.moments, table.reach, table.square
     shift = np.where(square == 0, 0.0, reach)
     series = table.series
     with np.errstate(invalid="ignore", divide="ignore", over="ignore"):
         gap = np.where(distance > reach * (1 + 1e-9), distance - shift, np.nan)
-        field = 12 * K * moments * square / gap**5
-        gradient = 60 * K * moments * square / gap**6
+        bound = factorial(order + 4) / 2 * K * moments * square / gap**(order + 5)
         if series.usable(series.row):
             index = series.index(series.row, reach / distance)
-            inverse = 1.0 / distance
-            field = np.fmin(field, 2 * K * moments * (np.take(series.flat[0], index) - 1.0) * inverse**3)
-            gradient = np.fmin(gradient, 6 * K * moments * (np.take(series.flat[1], index) - 1.0)
-                               * inverse**4)
-    return np.where(np.isnan(field), np.inf, field), np.where(np.isnan(gradient), np.inf, gradient)
+            bound = np.fmin(bound, factorial(order + 2) * K * moments * (np.take(series.flat[order], index) - 1.0)
+                            / distance**(order + 3))
+    return np.where(np.isnan(bound), np.inf, bound)
 
 
 def model_field(bodies, points, far, table=None):

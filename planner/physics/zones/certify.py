@@ -22,8 +22,8 @@ the two in wide cones well below the threshold: there the |B|^2 bound carries (L
 with the loose L1 of a far body, and can exceed threshold^2 alone (a 10-degree cone 20 cm
 from a ring at 1.5 mT against 6 mT could not be walked at all and had to be split twice).
 
-grad g(y) = 2 Jac(y)^T B(y) uses a central-difference Jacobian of the field model; its error
-is bounded by (eps^2 / 6) sqrt(3) L3 (Taylor remainder), plus the error of the field values
+grad g(y) = 2 Jac(y)^T B(y) uses a forward-difference Jacobian of the field model; its error
+is bounded by (eps / 2) sqrt(3) L2 (Taylor remainder), plus the error of the field values
 (relative 1e-8, divided by the step) and the model's own derivative error.
 
 Derivative bounds of order n for one body (``bounds.derivative_bounds``; (n+2)! from the Legendre
@@ -41,9 +41,12 @@ a flat face, where D - (d - a) is a sizeable part of the body.)
 References
 ----------
 Jackson, Classical Electrodynamics, 3rd ed. (1999), eqs. 3.70 and 5.56; Abramowitz & Stegun,
-Handbook of Mathematical Functions (1964), 25.3.4 (central-difference error).
+Handbook of Mathematical Functions (1964), 25.2.24 (Taylor's theorem with Lagrange's remainder,
+which gives the forward-difference error).
 """
 from __future__ import annotations
+
+from typing import NamedTuple
 
 import numpy as np
 
@@ -117,37 +120,63 @@ def _dipole_field_and_jacobian(bodies, points, far, table=None, distance=None):
     return field, jacobian
 
 
-def field_and_gradient(bodies, points, allowed_error, table=None):
-    """Model field |B| (n,) [T], its error bound (n,) [T], grad |B|^2 (n, 3) [T^2/m] and its error bound.
+class LocalModel(NamedTuple):
+    """The field model at a set of points, with what the proofs need about it.
+
+    ``field`` (n, 3) [T] and ``jacobian`` (n, 3, 3) [T/m], [j, l] = dB_l/dx_j, of the model
+    (:func:`local_model`); ``error`` (n,) [T] and ``jacobian_error`` (n,) [T/m] bound how far
+    the true |B| and the Frobenius norm of the true Jacobian are from them; ``geometry`` the
+    per-body distances and constants of :func:`~planner.physics.zones.bounds.derivative_bounds`.
+    """
+
+    field: np.ndarray
+    jacobian: np.ndarray
+    error: np.ndarray
+    jacobian_error: np.ndarray
+    geometry: tuple
+
+
+def local_model(bodies, points, allowed_error, table=None) -> LocalModel:
+    """Model field and Jacobian at ``points`` (n, 3) [m], with their error bounds.
 
     Far pairs: analytic dipole field and Jacobian. Near pairs: exact field and a
-    central-difference Jacobian with step 1e-3 of the distance to the nearest body.
-    Also returned (after the geometry): ``slope`` (n,) [T/m], a bound on the operator norm
-    of the true Jacobian DB at each point: the Frobenius norm of the model Jacobian (never
-    below its operator norm) plus the bound on its error.
+    forward-difference Jacobian with step 1e-4 of the distance to the nearest body (four
+    field evaluations per point, where central differences take seven).
+    ``allowed_error`` [T]: the dipole stand-ins' summed field error allowed per point.
     """
     table = body_table(bodies, table)
     distance = table.centre_distances(points)
     far, error, jacobian_error = dipole_assignment(bodies, points, allowed_error, table, distance)
     geometry = _ball_geometry(bodies, points, table, distance)
     field, jacobian = _dipole_field_and_jacobian(bodies, points, far, table, distance)
-    step = 1e-3 * np.maximum(np.min(np.maximum(geometry[1], geometry[0] - geometry[3]), axis=1), 1e-9)
-    basis = np.vstack([np.eye(3), -np.eye(3)])
+    step = 1e-4 * np.maximum(np.min(np.maximum(geometry[1], geometry[0] - geometry[3]), axis=1), 1e-9)
     for i, body in enumerate(bodies):
         near = np.flatnonzero(~far[:, i])
         if not len(near):
             continue
         h = step[near]
-        stacked = np.concatenate([points[near]] + [points[near] + h[:, None] * e for e in basis])
-        values = exact_body_field(body, stacked).reshape(7, len(near), 3)
+        stacked = np.concatenate([points[near]] + [points[near] + h[:, None] * e for e in np.eye(3)])
+        values = exact_body_field(body, stacked).reshape(4, len(near), 3)
         field[near] += values[0]
-        jacobian[near] += np.transpose((values[1:4] - values[4:7]) / (2 * h[None, :, None]), (1, 0, 2))
+        jacobian[near] += np.transpose((values[1:4] - values[0]) / h[None, :, None], (1, 0, 2))
         # Error of the field values themselves: the fields module states a relative error
         # of a few 1e-9 at worst (its far-field expansion; a few 1e-10 at the near-axis
-        # switch), so each entry (f(x + h) - f(x - h)) / 2h is off by at most
-        # 1e-8 max|B| / h and the 3 x 3 Frobenius norm by three times that.
-        jacobian_error[near] += 3e-8 * np.max(np.abs(values), axis=(0, 2)) / h
-    jacobian_error += np.sqrt(3) * step**2 / 6 * derivative_bound(geometry, step, 3)  # truncation
+        # switch), so each entry (f(x + h) - f(x)) / h is off by at most 2e-8 max|B| / h
+        # and the 3 x 3 Frobenius norm by three times that.
+        jacobian_error[near] += 6e-8 * np.max(np.abs(values), axis=(0, 2)) / h
+    # truncation: each column is off by at most (h / 2) max ||D^2 B|| within h of the point
+    jacobian_error += np.sqrt(3) * step / 2 * derivative_bound(geometry, step, 2)
+    return LocalModel(field, jacobian, error, jacobian_error, geometry)
+
+
+def gradient_parts(model: LocalModel):
+    """|B| (n,) [T], grad |B|^2 (n, 3) [T^2/m], its error bound (n,) and the slope (n,) [T/m].
+
+    The slope bounds the operator norm of the true Jacobian DB at each point: the Frobenius
+    norm of the model Jacobian (never below its operator norm) plus the bound on its error.
+    Points where anything is not finite get |B| = slope = +inf (nothing is proven there).
+    """
+    field, jacobian, error, jacobian_error = model.field, model.jacobian, model.error, model.jacobian_error
     size = np.sqrt(np.sum(field**2, axis=1))
     gradient = 2 * np.einsum("njl,nl->nj", jacobian, field)
     jacobian_norm = np.sqrt(np.sum(jacobian**2, axis=(1, 2)))
@@ -155,7 +184,66 @@ def field_and_gradient(bodies, points, allowed_error, table=None):
     bad = ~np.isfinite(size) | ~np.isfinite(gradient_error) | ~np.all(np.isfinite(gradient), axis=1)
     size[bad] = np.inf
     slope = np.where(bad, np.inf, jacobian_norm + jacobian_error)
-    return size, error, gradient, gradient_error, geometry, slope
+    return size, gradient, gradient_error, slope
+
+
+def field_and_gradient(bodies, points, allowed_error, table=None):
+    """Model field |B| (n,) [T], its error bound (n,) [T], grad |B|^2 (n, 3) [T^2/m] and its error bound.
+
+    The model of :func:`local_model`. Also returned (after the geometry): ``slope`` (n,)
+    [T/m], a bound on the operator norm of the true Jacobian (:func:`gradient_parts`).
+    """
+    model = local_model(bodies, points, allowed_error, table)
+    size, gradient, gradient_error, slope = gradient_parts(model)
+    return size, model.error, gradient, gradient_error, model.geometry, slope
+
+
+def taylor_holds(upper, along, across, slope, first, second, shift, across_reach, threshold):
+    """Whether the second-order bounds of the module docstring keep |B| below ``threshold``.
+
+    Over a ball of radius rho = hypot(shift, across_reach) [m] about a point y whose
+    displacements have a part along an axis of at most ``shift`` and a part across it of at
+    most ``across_reach``: ``upper`` |B(y)| plus its error [T]; ``along`` and ``across`` the
+    two parts of grad |B|^2 at y plus its error [T^2/m]; ``slope`` the bound on ||DB(y)||
+    [T/m]; ``first`` and ``second`` bounds on ||DB|| and ||D^2 B|| over the ball. All
+    broadcast together. Either bound proves the ball: the one on |B|^2 (best near the
+    farthest reach, where the across gradient vanishes) or the one on |B| itself (best well
+    below the threshold, where (L1 rho)^2 alone can exceed threshold^2). A NaN compares
+    False: nothing is proven from it.
+    """
+    spread = np.hypot(shift, across_reach)
+    with np.errstate(invalid="ignore", over="ignore", divide="ignore"):
+        # The Jacobian known at y: ||DB(x)|| <= slope + L2 |x - y| and
+        # |B(x)| <= |B(y)| + slope rho + L2 rho^2 / 2 (Taylor, see the module docstring).
+        first = np.minimum(first, slope + second * spread)
+        largest = np.minimum(upper + first * spread, upper + (slope + 0.5 * second * spread) * spread)
+        curvature = 2 * (first**2 + largest * second)
+        bound = upper**2 + across * across_reach + along * shift + 0.5 * curvature * spread**2
+    limit = threshold**2 * (1 - 1e-9)
+    return (np.nan_to_num(bound, nan=np.inf) <= limit) | (largest <= np.sqrt(limit))
+
+
+def axis_parts(gradient, gradient_error, axes):
+    """|part of grad |B|^2 along ``axes``| and |part across them|, each plus its error bound."""
+    along = np.sum(gradient * axes, axis=1)
+    across = np.linalg.norm(gradient - along[:, None] * axes, axis=1)
+    return np.abs(along) + gradient_error, across + gradient_error
+
+
+def patch_below(model: LocalModel, axes, along_reach, across_reach, threshold):
+    """Whether |B| < ``threshold`` [T] at every point y + d of the patches about the model's points.
+
+    ``d`` has a part along the unit ``axes`` (n, 3) of at most ``along_reach`` (n,) [m] and a
+    part across them of at most ``across_reach`` (n,) [m]: a spherical cap about its centre
+    (the bulge and the half-width), or a flat patch about its centre (0 and its radius).
+    Second-order bounds of the module docstring, with the derivative bounds taken over the
+    ball of radius hypot(along_reach, across_reach) about each point.
+    """
+    size, gradient, gradient_error, slope = gradient_parts(model)
+    along, across = axis_parts(gradient, gradient_error, axes)
+    first, second = derivative_bounds(model.geometry, np.hypot(along_reach, across_reach), (1, 2))
+    return taylor_holds(size + model.error, along, across, slope, first, second, along_reach, across_reach,
+                        threshold)
 
 
 # The depth is searched by bisection on a log scale between 1e-4 and 1 of the largest
@@ -181,14 +269,10 @@ def certified_depth(bodies, points, axes, radii, half_angles, threshold, allowed
         bodies, points, allowed_error, table)
     high = np.maximum(np.min(np.maximum(geometry[1], geometry[0] - geometry[3]), axis=1), 1e-9)
     high = np.minimum(high, radii)
-    along = np.abs(np.sum(gradient * axes, axis=1))
-    across = np.linalg.norm(gradient - np.sum(gradient * axes, axis=1)[:, None] * axes, axis=1)
-    along, across = along + gradient_error, across + gradient_error
+    along, across = axis_parts(gradient, gradient_error, axes)
     upper = size + error
     across_reach = radii * np.sin(half_angles)
     bulge = radii * (1 - np.cos(half_angles))
-    limit = threshold**2 * (1 - 1e-9)
-    level = np.sqrt(limit)
 
     def holds(depth, parts):  # depth (n, m) -> (n, m) bool; parts: _split_far for balls >= these
         near, (far_first, far_second), (widest_first, widest_second), nearest_far = parts
@@ -199,18 +283,8 @@ def certified_depth(bodies, points, axes, radii, half_angles, threshold, allowed
             growth = 1.0 / np.maximum(1.0 - spread / nearest_far[:, None], 0.0)
             first = first + np.minimum(far_first[:, None] * growth**4, widest_first[:, None])
             second = second + np.minimum(far_second[:, None] * growth**5, widest_second[:, None])
-            # The Jacobian known at the axis point: ||DB(x)|| <= slope + L2 |x - y| and
-            # |B(x)| <= |B(y)| + slope rho + L2 rho^2 / 2 (Taylor, see the docstring).
-            first = np.minimum(first, slope[:, None] + second * spread)
-            largest = np.minimum(upper[:, None] + first * spread,
-                                 upper[:, None] + (slope[:, None] + 0.5 * second * spread) * spread)
-            curvature = 2 * (first**2 + largest * second)
-            bound = (upper**2 + across * across_reach)[:, None] + along[:, None] * shift + 0.5 * curvature * spread**2
-        # Either bound proves the slab: the one on |B|^2 (best near the farthest reach,
-        # where the across gradient vanishes) or the one on |B| itself (best in wide cones
-        # well below the threshold, where (L1 rho)^2 alone can exceed threshold^2).
-        # (A NaN compares False: nothing is proven from it.)
-        return (np.nan_to_num(bound, nan=np.inf) <= limit) | (largest <= level)
+        return taylor_holds(upper[:, None], along[:, None], across[:, None], slope[:, None], first, second,
+                            shift, across_reach[:, None], threshold)
 
     # grown to each ball by _split_far's factor, which the series form does not obey
     centre_bounds = derivative_bounds(geometry, np.zeros(len(points)), (1, 2), per_body=True,

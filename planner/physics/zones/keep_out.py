@@ -7,7 +7,7 @@ Every figure here is meant for a safety line, so each one errs outward and says 
   whenever a point must be shown to lie below a threshold;
 * a region is declared below a threshold only when proven bounds on the field and its
   derivatives say no point of it can reach the threshold (:mod:`planner.physics.zones.bounds`,
-  :mod:`planner.physics.zones.certify`);
+  :mod:`planner.physics.zones.certify`, :mod:`planner.physics.zones.shell`);
 * what cannot be proven below is counted as reaching the threshold.
 
 All inputs and outputs are SI floats and numpy arrays: tesla, metres.
@@ -24,13 +24,13 @@ from __future__ import annotations
 import numpy as np
 
 from planner.physics.bodies import MagnetBody
-from planner.physics.zones import bounds
+from planner.physics.zones import bounds, shell
 from planner.physics.zones.bounds import field_with_error
 from planner.physics.zones.certify import certified_depth
 from planner.physics.zones.sampling import (
     cone_of_triangle, fibonacci_directions, icosahedron_triangles, subdivide)
 
-__all__ = ["keep_out_radius", "keep_out_radii", "farthest_start_radius"]
+__all__ = ["keep_out_radius", "keep_out_radii", "farthest_start_radius", "farthest_start_radii"]
 
 RELATIVE_TARGET = 0.045  # refine until the proven radius is within 4.5 % ...
 ABSOLUTE_TARGET = 4.5e-3  # ... or 4.5 mm of the farthest point found at the threshold [m]
@@ -43,6 +43,8 @@ MAX_CONES = 24000
 # this error reaches the threshold, so it is sound at any size; 1 % keeps the witnesses within
 # 0.3 % of their distance while letting most distant magnets be taken as dipoles.
 WITNESS_ERROR = 1e-2
+PROOF_ATTEMPTS = 6
+LOOSER_STEP = 0.02
 
 
 def farthest_start_radius(bodies: list[MagnetBody], index: int, threshold: float, table=None) -> float:
@@ -72,8 +74,8 @@ def farthest_start_radius(bodies: list[MagnetBody], index: int, threshold: float
     d_i >= max(R, g_i / 2) = e_i. With the dipole value and the error bound of the dipole
     stand-in of each body (:func:`~planner.physics.zones.bounds.dipole_remainders`, which
     falls with distance), |B| <= sum_i [2 k m_i / e_i^3 + remainder_i(e_i)], k = mu0/4pi,
-    finite for e_i > a_i. The right side falls with R; bisection finds where it meets the
-    threshold.
+    finite for e_i > a_i. The right side falls with R; :func:`farthest_start_radii` takes
+    the first node beyond where it meets the threshold on a fine geometric grid.
 
     References
     ----------
@@ -86,24 +88,51 @@ def farthest_start_radius(bodies: list[MagnetBody], index: int, threshold: float
     >>> round(farthest_start_radius([ball], 0, 1e-3) * 100, 2)  # exact dipole: on-axis radius
     4.64
     """
+    return float(farthest_start_radii(bodies, index, [threshold], table)[0])
+
+
+# The start radii are read off geometric grids of the bound: first GRID_NODES radii between a
+# radius where the bound still reaches the threshold and one where it no longer does (a ratio
+# q apart), then as many between the two nodes that bracket each threshold: q^(1/128^2)
+# between the fine nodes, below 1.0005 for any q up to 2^11.
+GRID_NODES = 129
+
+
+def farthest_start_radii(bodies: list[MagnetBody], index: int, thresholds, table=None) -> np.ndarray:
+    """:func:`farthest_start_radius` for several thresholds (k,) [T] at once: radii (k,) [m].
+
+    The bound of :func:`farthest_start_radius` does not depend on the threshold and falls
+    with the radius, so one geometric grid of it serves every threshold: each result is the
+    first node of a finer grid inside the bracketing coarse cell where the bound is below
+    its threshold, one fine step beyond where the bound meets it.
+    """
+    thresholds = np.atleast_1d(np.asarray(thresholds, dtype=float))
     table = bounds.body_table(bodies, table)
     moments, reach = table.moments, table.reach
     half_gap = np.linalg.norm(table.centres - table.centres[index], axis=1) / 2
 
-    def bound(r):
-        distance = np.maximum(r, half_gap)
-        return np.sum(2 * bounds.K * moments / distance**3 + bounds.dipole_remainders(table, distance)[0])
+    def bound(r):  # r (...,) -> (...,)
+        distance = np.maximum(np.asarray(r)[..., None], half_gap)
+        return np.sum(2 * bounds.K * moments / distance**3 + bounds.dipole_remainders(table, distance)[0], axis=-1)
 
-    low = max(float(np.max(reach - half_gap)) * (1 + 1e-9), float(reach[index]) * (1 + 1e-9), 1e-6)
-    if bound(low) < threshold:
-        return low
+    # just outside every bounding sphere that reaches into the cell (the remainders are
+    # finite only beyond 1 + 1e-9 of the bounding radius)
+    low = max(float(np.max(reach - half_gap)) * (1 + 2e-9), float(reach[index]) * (1 + 2e-9), 1e-6)
+    result = np.full(len(thresholds), low)
+    open_ = bound(low) >= thresholds
+    if not open_.any():
+        return result
     high = 2 * low
-    while bound(high) >= threshold:
+    while bound(high) >= thresholds[open_].min():
         high *= 2
-    for _ in range(60):
-        middle = 0.5 * (low + high)
-        low, high = (middle, high) if bound(middle) >= threshold else (low, middle)
-    return high
+    nodes = low * (high / low) ** np.linspace(0.0, 1.0, GRID_NODES)
+    values = bound(nodes)
+    # the last node still at or above each threshold (the first node is, for open ones)
+    last = np.array([np.flatnonzero(values >= t)[-1] for t in thresholds[open_]])
+    fine = nodes[last, None] * (nodes[last + 1, None] / nodes[last, None]) ** np.linspace(0.0, 1.0, GRID_NODES)
+    below = bound(fine) < thresholds[open_, None]  # the coarse node last + 1 is below: so is fine[:, -1]
+    result[open_] = fine[np.arange(len(last)), np.argmax(below, axis=1)]
+    return result
 
 
 def _cell_limit(bodies, index, axes, half_angles):
@@ -207,15 +236,18 @@ def keep_out_radii(bodies: list[MagnetBody], index: int, thresholds) -> np.ndarr
     floor = bodies[index].bounding_radius
     previous = None
     table = bounds.BodyTable(bodies)
-    rays = None
-    for position in np.argsort(thresholds):
+    starts = farthest_start_radii(bodies, index, thresholds, table)
+    order = np.argsort(thresholds)
+    # rays sampled once, out to the lowest threshold's start
+    hits = _RaySamples(bodies, index, starts[order[0]], thresholds[order[0]], table).farthest(thresholds)
+    for position in order:
         threshold = thresholds[position]
-        start = farthest_start_radius(bodies, index, threshold, table)
+        start = starts[position]
         if previous is not None:
             start = min(start, previous)
-        if rays is None:  # sampled once, out to the lowest threshold's start
-            rays = _RaySamples(bodies, index, start, threshold, table)
-        radius = _refine(bodies, index, threshold, start, table, rays)
+        radius = _prove(bodies, index, threshold, start, table, hits[position])
+        if radius is None:  # magnets in the cell, or no proof at a close radius: walk cones
+            radius = _refine(bodies, index, threshold, start, table, hits[position])
         radius = _verify(bodies, index, threshold, max(radius, floor), table=table)
         result[position] = previous = radius * (1 + 1e-9)  # rounding, outward
     return result
@@ -319,24 +351,97 @@ class _RaySamples:
     error (own cell only, -inf elsewhere), with the error allowance of the lowest threshold.
     """
 
-    def __init__(self, bodies, index, reach, lowest, table, count=PROBED_CONES * 4, samples=40):
+    def __init__(self, bodies, index, reach, lowest, table, count=PROBED_CONES * 4, samples=24):
         self.bodies, self.index, self.table = bodies, index, table
         self.directions = fibonacci_directions(count)
         floor = bodies[index].bounding_radius * (1 + 1e-6)
         self.distance = np.broadcast_to(_geometric_radii(floor, max(reach, floor), samples), (count, samples))
         self.lower = _lower_values(bodies, index, self.directions, self.distance, WITNESS_ERROR * lowest, table)
 
-    def farthest(self, threshold):
-        """Farthest radius [m] found at ``threshold`` on these rays (0 if none)."""
-        return _outermost_from_samples(self.bodies, self.index, self.directions, self.distance,
-                                       self.lower >= threshold, threshold, 0.0, self.table)
+    def farthest(self, thresholds):
+        """Farthest radius [m] found at each of ``thresholds`` (k,) [T] on these rays (0 if none).
+
+        The outermost sample at the threshold on each ray, then bisection towards the next
+        sample out, for the rays that can still beat the best so far; the bisections of all
+        thresholds share their field evaluations (with the error allowance of the lowest).
+        """
+        thresholds = np.atleast_1d(np.asarray(thresholds, dtype=float))
+        best = np.zeros(len(thresholds))
+        samples = self.distance.shape[1]
+        which, axes, inner, outer = [], [], [], []
+        for k, threshold in enumerate(thresholds):
+            reached = self.lower >= threshold
+            rows = np.flatnonzero(reached.any(axis=1))
+            if not len(rows):
+                continue
+            outermost = samples - 1 - np.argmax(reached[rows, ::-1], axis=1)
+            which.append(np.full(len(rows), k))
+            axes.append(self.directions[rows])
+            inner.append(self.distance[rows, outermost])
+            outer.append(self.distance[rows, np.minimum(outermost + 1, samples - 1)])
+            best[k] = float(np.max(inner[-1]))
+        if not which:
+            return best
+        which, axes, inner, outer = (np.concatenate(parts) for parts in (which, axes, inner, outer))
+        for _ in range(6):
+            promising = outer > best[which]
+            if not promising.any():
+                break
+            which, axes, inner, outer = which[promising], axes[promising], inner[promising], outer[promising]
+            middle = 0.5 * (inner + outer)
+            lower = _lower_values(self.bodies, self.index, axes, middle[:, None],
+                                  WITNESS_ERROR * float(np.min(thresholds)), self.table)[:, 0]
+            ok = lower >= thresholds[which]
+            inner = np.where(ok, middle, inner)
+            outer = np.where(ok, outer, middle)
+            np.maximum.at(best, which, inner)
+        return best
 
 
 def _close_enough(proven, best):
     return proven <= np.maximum(best * (1 + RELATIVE_TARGET), best + ABSOLUTE_TARGET)
 
 
-def _refine(bodies, index, threshold, start, table, rays):
+def _target(best):
+    """The radius to try proving once a point at the threshold is known at ``best`` [m]."""
+    return max(best * (1 + RELATIVE_TARGET), best + ABSOLUTE_TARGET)
+
+
+def _prove(bodies, index, threshold, start, table, hit):
+    """Smallest radius proven by :func:`planner.physics.zones.shell.prove_beyond` near the best hit.
+
+    Tries the radius just outside the farthest point found at the threshold (4.5 % or
+    4.5 mm); where the proof meets points at the threshold, or cannot settle some caps, it
+    looks for points farther out along those directions and tries again outside them, and
+    failing that a radius 2 % larger. Returns None where the cell beyond the radius holds
+    another magnet (:func:`~planner.physics.zones.shell.source_free`) or after
+    ``PROOF_ATTEMPTS`` tries: the caller then walks cones instead.
+    """
+    centre = bodies[index].center
+    best = 0.0 if bodies[index].shape == "sphere" else bodies[index].bounding_radius
+    best = max(best, hit)
+    radius = max(_target(best), bodies[index].bounding_radius * (1 + 1e-6))
+    for _ in range(PROOF_ATTEMPTS):
+        if radius >= start:
+            return start
+        if not shell.source_free(table, index, radius):
+            return None
+        outcome = shell.prove_beyond(bodies, index, radius, start, threshold, table)
+        if outcome.proven:
+            return radius
+        points = outcome.witnesses if len(outcome.witnesses) else outcome.unproven
+        offsets = points - centre
+        axes = offsets / np.linalg.norm(offsets, axis=1)[:, None]
+        found = _probe(bodies, index, axes, np.full(len(axes), start), threshold, table=table, inner=best)
+        if found > best:
+            best = found
+            radius = max(_target(best), radius * (1 + 1e-3))
+        else:
+            radius *= 1 + LOOSER_STEP
+    return None
+
+
+def _refine(bodies, index, threshold, start, table, hit):
     """Adaptive cones: subdivide those whose proven radius is not yet close to the best hit."""
     allowed_error = 2e-3 * threshold
     triangles = icosahedron_triangles(START_LEVEL)
@@ -345,7 +450,7 @@ def _refine(bodies, index, threshold, start, table, rays):
     # field grows without bound: the exact distance is at least the bounding radius.
     best_hit = 0.0 if bodies[index].shape == "sphere" else bodies[index].bounding_radius
     # The proven start itself may already be close enough to a point found at the threshold.
-    best_hit = max(best_hit, rays.farthest(threshold))
+    best_hit = max(best_hit, hit)
     if _close_enough(start, best_hit):
         return start
     settled = 0.0
@@ -369,13 +474,17 @@ def _refine(bodies, index, threshold, start, table, rays):
     return settled  # not reached
 
 
-def _verify(bodies, index, threshold, radius, directions=600, table=None):
-    """Belt and braces: sample just outside ``radius``; grow past any sample at threshold."""
+def _verify(bodies, index, threshold, radius, directions=200, table=None):
+    """Belt and braces: sample just outside ``radius``; grow past any sample at threshold.
+
+    A guard against a fault in the proofs, not part of them: two shells of ``directions``
+    points each (the proofs cover every point of the cell beyond the radius).
+    """
     centre = bodies[index].center
     table = bounds.body_table(bodies, table)
     unit = fibonacci_directions(directions)
     for _ in range(8):
-        shells = radius * np.array([1.0005, 1.01, 1.03])
+        shells = radius * np.array([1.0005, 1.02])
         points = (centre + shells[:, None, None] * unit[None]).reshape(-1, 3)
         points = points[_in_own_cell(table, index, points)]
         value, error = field_with_error(bodies, points, WITNESS_ERROR * threshold, table)
@@ -402,9 +511,10 @@ def keep_out_radius(bodies: list[MagnetBody], index: int, threshold: float) -> f
     -------
     float
         Distance [m] from the centre of body ``index``. Never below the exact value.
-        Refinement stops once it is within 4.5 % or 4.5 mm of a point found at the threshold
-        (so at least that close to the exact value), or when the cone budget is spent, in
-        which case the figure is still proven but looser; tests check 5 % or 5 mm.
+        It is proven at 4.5 % or 4.5 mm beyond a point found at the threshold (so at least
+        that close to the exact value) unless the proof needed a larger radius there (the
+        tries of step 4, or the cone budget), in which case the figure is still proven but
+        looser; tests check 5 % or 5 mm.
 
     Notes
     -----
@@ -414,24 +524,27 @@ def keep_out_radius(bodies: list[MagnetBody], index: int, threshold: float) -> f
     field reaches the threshold: no line is shortened, even where the regions of two
     magnets merge. A point exactly as far from two centres counts for both.
 
-    **Method.** (1) Start at a radius proven beyond the threshold
-    (:func:`farthest_start_radius`). (2) Cover the sphere of directions with spherical
-    triangles of a subdivided icosahedron; each lies inside a cone of half-angle delta
-    about its circumcentre direction. (3) Walk each cone inward from the start: at the
-    axis point y at radius r, the slab of the cone with radii in [r - s, r] is proven below
-    the threshold by a second-order bound on |B|^2 around y (``zones.certify``: the model
-    field and its gradient at y, proven bounds on the field's first and second derivatives
-    over the slab, the error of the far-field dipole model); across the cone the first-order
-    term is the across-axis gradient, nearly zero where the reach is largest, so the cone
-    width enters almost only quadratically. Slabs wholly in another magnet's cell are
-    skipped. The walk stops where s becomes tiny: that radius is proven for the cone.
-    (4) Cones whose proven radius is not within 4.5 % or 4.5 mm of the farthest point
-    actually found at the threshold (a lower bound of the exact value; for shapes other
-    than the sphere at least the bounding radius, see below) are split into four and walked
-    on from their parent's proven radius, until all are or a budget of cones is spent.
-    (5) The result is the largest proven radius, at least the body's own bounding radius,
-    then checked by dense sampling just outside it (grown if any sample reaches the
-    threshold). Steps (3)-(4) are what make the figure conservative; (5) guards the code.
+    **Method.** (1) Start at a radius S proven beyond the threshold
+    (:func:`farthest_start_radius`). (2) Find points at the threshold: |B| minus its proven
+    error is sampled along 192 rays from the centre and bisected past the outermost sample
+    that reaches the threshold; the farthest such point is a lower bound of the exact value
+    (for shapes other than the sphere so is the bounding radius, see below). (3) Try the
+    radius R 4.5 % or 4.5 mm beyond it: by the maximum principle for |B|^2, which is
+    subharmonic outside the magnets, |B| < threshold in the whole cell between R and S
+    once it is proven on the sphere of radius R within the cell and on the cell's faces
+    between R and S (:mod:`planner.physics.zones.shell`: caps of a subdivided icosahedron
+    and flat patches of the faces, each proven by second-order bounds with the magnet's own
+    dipole taken exactly). (4) Where that proof meets points at the threshold, or cannot
+    settle some caps, look for points farther out along their directions and try again
+    just outside the farthest one, or at a radius 2 % larger. (5) Where another magnet lies
+    in the cell beyond R (magnets touching or stacked), or after six tries, walk cones
+    instead: cover the sphere of directions with spherical triangles, each inside a cone,
+    and walk each cone inward from S while a second-order bound proves the slab
+    [r - s, r] below the threshold (``zones.certify``), splitting the cones whose proven
+    radius is not yet within 4.5 % or 4.5 mm of the farthest point found, until all are or
+    a budget of cones is spent. (6) The result is checked by sampling just outside it
+    (grown if any sample reaches the threshold). Steps (3)-(5) are what make the figure
+    conservative; (6) guards the code.
 
     **Thresholds above the field outside the body.** The result is then the body's
     bounding radius (the body itself is the keep-out). For every shape except the sphere

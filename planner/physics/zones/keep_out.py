@@ -254,25 +254,81 @@ def keep_out_radii(bodies: list[MagnetBody], index: int, thresholds) -> np.ndarr
 
 
 def _in_own_cell(table, index, points):
-    """Which points (n, 3) are at least as close to centre ``index`` as to any other (its cell)."""
+    """Which points (n, 3) are at least as close to centre ``index`` as to any other (its cell).
+
+    Points on a face of the cell count (up to the rounding of the distances, 1e-12).
+    """
     distance = table.centre_distances(points)
     own = distance[:, index].copy()
     distance[:, index] = np.inf
-    return own <= np.min(distance, axis=1, initial=np.inf)
+    return own <= np.min(distance, axis=1, initial=np.inf) * (1 + 1e-12)
 
 
 def _lower_values(bodies, index, axes, distance, allowed_error, table):
     """|B| minus its proven error [T] at ``distance`` (n, k) [m] along ``axes`` (n, 3) from
     body ``index``'s centre, with the far-field error ``allowed_error`` [T]; -inf at points
     outside the body's own cell (nearer another centre), which are not its to count."""
-    centre = bodies[index].center
-    points = centre + (distance[..., None] * axes[:, None, :]).reshape(-1, 3)
+    points = bodies[index].center + (distance[..., None] * axes[:, None, :]).reshape(-1, 3)
+    return _lower_at(bodies, index, points, allowed_error, table).reshape(distance.shape)
+
+
+def _face_search(bodies, index, points, outer, threshold, table, best, samples=10, halvings=6):
+    """Farthest distance [m] from the centre found at the threshold on the cell faces near ``points``.
+
+    The region at the threshold can hug a face of the cell (a stronger neighbour's field
+    spilling over): rays from the centre leave the cell there at once, so for each point
+    within 2 % of its distance from a face the search runs on that face instead, outward
+    from the foot of the centre on it through the point's projection, out to ``outer``
+    (geometric samples, then bisection past the outermost one at the threshold). Points of
+    a face belong to the cell, so what is found there counts.
+    """
+    cell = shell._Cell(table, index)
+    if not len(cell.gaps) or not len(points):
+        return best
+    offsets = points - cell.centre
+    excess = offsets @ cell.normals.T - 0.5 * cell.gaps
+    row = np.argmax(excess, axis=1)
+    near = excess[np.arange(len(points)), row] >= -0.02 * np.linalg.norm(offsets, axis=1)
+    row, offsets = row[near], offsets[near]
+    normals, half = cell.normals[row], 0.5 * cell.gaps[row]
+    along = offsets - (np.sum(offsets * normals, axis=1) - half)[:, None] * normals - half[:, None] * normals
+    start = np.linalg.norm(along, axis=1)
+    fits = (start > 0) & (half < outer)
+    if not fits.any():
+        return best
+    along, start, normals, half = along[fits] / start[fits, None], start[fits], normals[fits], half[fits]
+    feet = cell.centre + half[:, None] * normals
+    end = np.sqrt(np.maximum(outer**2 - half**2, start**2))
+    steps = start[:, None] * (end / start)[:, None] ** np.linspace(0.0, 1.0, samples)
+
+    def lower(s):  # s (m, k) distances along the face -> lower values (m, k)
+        on_face = feet[:, None, :] + s[..., None] * along[:, None, :]
+        values = _lower_at(bodies, index, on_face.reshape(-1, 3), WITNESS_ERROR * threshold, table)
+        return values.reshape(s.shape)
+
+    reached = lower(steps) >= threshold
+    rows = np.flatnonzero(reached.any(axis=1))
+    if not len(rows):
+        return best
+    outermost = samples - 1 - np.argmax(reached[rows, ::-1], axis=1)
+    inner = steps[rows, outermost]
+    outer_s = steps[rows, np.minimum(outermost + 1, samples - 1)]
+    feet, along, half = feet[rows], along[rows], half[rows]
+    for _ in range(halvings):
+        middle = 0.5 * (inner + outer_s)
+        ok = lower(middle[:, None])[:, 0] >= threshold
+        inner, outer_s = np.where(ok, middle, inner), np.where(ok, outer_s, middle)
+    return max(best, float(np.max(np.hypot(half, inner))))
+
+
+def _lower_at(bodies, index, points, allowed_error, table):
+    """|B| minus its proven error [T] at ``points`` (n, 3); -inf outside body ``index``'s cell."""
     keep = _in_own_cell(table, index, points)
     lower = np.full(len(points), -np.inf)
     if keep.any():
         value, error = field_with_error(bodies, points[keep], allowed_error, table)
         lower[keep] = value - error
-    return lower.reshape(distance.shape)
+    return lower
 
 
 def _geometric_radii(floor, outer, samples):
@@ -433,6 +489,7 @@ def _prove(bodies, index, threshold, start, table, hit):
         offsets = points - centre
         axes = offsets / np.linalg.norm(offsets, axis=1)[:, None]
         found = _probe(bodies, index, axes, np.full(len(axes), start), threshold, table=table, inner=best)
+        found = _face_search(bodies, index, points, start, threshold, table, found)
         if found > best:
             best = found
             radius = max(_target(best), radius * (1 + 1e-3))

@@ -75,8 +75,8 @@ IGNORED_SHARE = 0.01  # of the threshold, for the bodies left out of the per-pat
 MODEL_SHARE = 2e-3  # of the threshold, for the dipole stand-ins' error at each patch centre
 FIRST_CAP_LEVEL = 1  # 80 caps of about 18 degrees to begin with
 LAST_CAP_LEVEL = 6
-FACE_RING_RATIO = 1.3  # radial cells of the face patches, as a ratio of distances from c
-FACE_SECTORS = 8
+FACE_RING_RATIO = 1.15  # radial cells of the face patches, as a ratio of distances from c
+FACE_SECTORS = 16
 FACE_SPLITS = 6
 
 

@@ -1,0 +1,264 @@
+"""The proof of keep-out distances on a sphere and the cell's faces (planner.physics.zones.shell).
+
+Checks against independent computations: brute-force sampling of the exact field of
+planner.physics.fields, finite differences of it, and the weak maximum principle for the
+subharmonic |B|^2 (Gilbarg and Trudinger, Elliptic Partial Differential Equations of Second
+Order (2001), Theorem 3.1), which the proof rests on and which is checked here on the field
+itself.
+"""
+from __future__ import annotations
+
+import numpy as np
+import pytest
+
+from planner.physics.bodies import MagnetBody, rotation_from_axis
+from planner.physics.fields import field_of_bodies
+from planner.physics.zones import shell
+from planner.physics.zones.bounds import BodyTable, dipole_remainder
+from planner.physics.zones.certify import local_model, patch_below
+from planner.physics.zones.keep_out import farthest_start_radii, keep_out_radii
+from planner.physics.zones.sampling import cone_of_triangle, icosahedron_triangles
+
+RNG = np.random.default_rng(20261202)
+
+
+def bench():
+    """Three magnets 6-9 cm apart: a strong disc, a block and a weak disc (N35 to N52)."""
+    return [MagnetBody("cylinder", [0, 0, 0], rotation_from_axis([0.2, 0.1, 1.0]), [0.1, 0.2, 1.4],
+                       diameter=0.02, height=0.01),
+            MagnetBody("block", [0.07, 0.02, 0.0], rotation_from_axis([1.0, 0.3, 0.0]), [1.1, 0.3, 0.2],
+                       size=[0.012, 0.01, 0.02]),
+            MagnetBody("cylinder", [-0.03, 0.08, 0.01], np.eye(3), [0.0, 1.2, 0.0], diameter=0.008, height=0.004)]
+
+
+def in_cell(bodies, index, points):
+    centres = np.array([b.center for b in bodies])
+    distance = np.linalg.norm(points[:, None] - centres[None], axis=2)
+    return distance[:, index] <= distance.min(axis=1) * (1 + 1e-12)
+
+
+def random_directions(count):
+    unit = RNG.normal(size=(count, 3))
+    return unit / np.linalg.norm(unit, axis=1)[:, None]
+
+
+def field_size(bodies, points):
+    return np.linalg.norm(field_of_bodies(bodies, points), axis=1)
+
+
+def test_field_magnitude_squared_is_subharmonic_between_the_magnets():
+    # Identity behind the proof: each component of B is harmonic outside the magnets, so
+    # the Laplacian of |B|^2 is 2 sum |grad B_k|^2 >= 0 (five-point differences per axis).
+    bodies = bench()
+    points = 0.15 * RNG.uniform(-1, 1, size=(400, 3))
+    clear = np.all(np.linalg.norm(points[:, None] - np.array([b.center for b in bodies])[None], axis=2)
+                   > 1.5 * np.array([b.bounding_radius for b in bodies]), axis=1)
+    points = points[clear]
+    h = 2e-4
+    centre = field_size(bodies, points) ** 2
+    laplacian = sum((field_size(bodies, points + h * e) ** 2 + field_size(bodies, points - h * e) ** 2 - 2 * centre)
+                    / h**2 for e in np.eye(3))
+    assert np.all(laplacian > -1e-6 * np.max(np.abs(laplacian)))
+
+
+def test_largest_field_of_a_cell_region_lies_on_its_boundary():
+    # Weak maximum principle (Gilbarg & Trudinger, Theorem 3.1) on the region the proof uses:
+    # the cell of magnet 0 between R and S. Dense samples inside never exceed the largest
+    # value sampled on its boundary: the sphere of radius R, the faces and the sphere of radius S.
+    bodies = bench()
+    centre, radius, outer = bodies[0].center, 0.035, 0.09
+    inside = centre + random_directions(40000) * RNG.uniform(radius, outer, 40000)[:, None]
+    inside = inside[in_cell(bodies, 0, inside)]
+    boundary = [centre + r * random_directions(20000) for r in (radius, outer)]
+    for other in bodies[1:]:  # points of the bisecting plane between R and S
+        gap = other.center - centre
+        normal = gap / np.linalg.norm(gap)
+        spread = random_directions(20000) * RNG.uniform(0, outer, 20000)[:, None]
+        spread -= np.outer(spread @ normal, normal)
+        boundary.append(centre + 0.5 * gap + spread)
+    boundary = np.vstack(boundary)
+    distance = np.linalg.norm(boundary - centre, axis=1)
+    boundary = boundary[in_cell(bodies, 0, boundary) & (distance >= radius * (1 - 1e-12))
+                        & (distance <= outer * (1 + 1e-12))]
+    assert field_size(bodies, inside).max() <= field_size(bodies, boundary).max()
+
+
+@pytest.mark.parametrize("index, threshold", [(0, 1e-3), (1, 2e-3), (2, 1e-3), (0, 6e-3)])
+def test_a_proven_shell_has_no_point_at_the_threshold(index, threshold):
+    # Brute force: if prove_beyond says the cell between R and S is below the threshold,
+    # 60 000 random points of it (and points on its faces) stay below in the exact field.
+    bodies = bench()
+    table = BodyTable(bodies)
+    outer = float(farthest_start_radii(bodies, index, [threshold], table)[0])
+    proven_at = None
+    for radius in outer * np.geomspace(0.4, 1.0, 40):
+        if not shell.source_free(table, index, radius):
+            continue
+        outcome = shell.prove_beyond(bodies, index, radius, outer, threshold, table)
+        if outcome.proven:
+            proven_at = radius
+            break
+        # what is reported as reaching the threshold does reach it (exact field)
+        if len(outcome.witnesses):
+            assert np.all(field_size(bodies, outcome.witnesses) >= threshold)
+            assert np.all(in_cell(bodies, index, outcome.witnesses))
+    assert proven_at is not None and proven_at < outer
+    centre = bodies[index].center
+    points = centre + random_directions(60000) * RNG.uniform(proven_at, outer, 60000)[:, None]
+    points = points[in_cell(bodies, index, points)]
+    assert field_size(bodies, points).max() < threshold
+
+
+def test_caps_proven_with_the_own_dipole_hold_under_brute_force():
+    # The cap bound on its own: caps of 4.5 degrees on a sphere 3.5 radii from a disc, with a
+    # neighbour; the threshold is set so that about half of them are proven, some just. Random
+    # points of every proven cap stay below it in the exact field.
+    bodies = bench()[:2]
+    table = BodyTable(bodies)
+    centre, radius = bodies[0].center, 3.5 * bodies[0].bounding_radius
+    axes, half_angles = cone_of_triangle(icosahedron_triangles(3))
+    points = centre + radius * axes
+    threshold = 1.05 * float(np.median(field_size(bodies, points)))
+    cell = shell._Cell(table, 0)
+    inside = cell.excess(points) <= 0
+    outcome_caps = []
+    model = local_model(bodies, points[inside], 2e-3 * threshold, table)
+    from planner.physics.zones.bounds import derivative_bounds
+    from planner.physics.zones.certify import _dipole_field_and_jacobian
+    chord = 2 * radius * np.sin(half_angles[inside] / 2)
+    _, second = derivative_bounds(model.geometry, chord, (1, 2), per_body=True)
+    own = table.subset([0])
+    _, own_jacobian = _dipole_field_and_jacobian([bodies[0]], points[inside], np.ones((inside.sum(), 1), bool), own)
+    rest = second[:, 1] + dipole_remainder(own, (radius - chord)[:, None], 2)[:, 0]
+    holds = shell._dipole_cap_holds(model, own_jacobian, table.vectors[0], radius, axes[inside],
+                                    half_angles[inside], rest, threshold)
+    assert 0.2 < holds.mean() < 0.9
+    for axis, half in zip(axes[inside][holds], half_angles[inside][holds]):
+        turn = random_directions(300)
+        turn -= np.outer(turn @ axis, axis)
+        turn /= np.linalg.norm(turn, axis=1)[:, None]
+        angle = half * np.sqrt(RNG.random((300, 1)))
+        cap = centre + radius * (np.cos(angle) * axis + np.sin(angle) * turn)
+        outcome_caps.append(field_size(bodies, cap).max())
+    assert max(outcome_caps) < threshold
+
+
+def test_flat_patches_proven_hold_under_brute_force():
+    # Flat patches of a bisecting plane (the faces of the proof), radius 4 mm, proven by the
+    # general second-order bound at a threshold near their median field.
+    bodies = bench()[:2]
+    table = BodyTable(bodies)
+    gap = bodies[1].center - bodies[0].center
+    normal = gap / np.linalg.norm(gap)
+    spread = random_directions(300) * RNG.uniform(0, 0.06, 300)[:, None]
+    spread -= np.outer(spread @ normal, normal)
+    points = bodies[0].center + 0.5 * gap + spread
+    threshold = float(np.median(field_size(bodies, points)))
+    reach = np.full(len(points), 4e-3)
+    model = local_model(bodies, points, 2e-3 * threshold, table)
+    holds = patch_below(model, np.tile(normal, (len(points), 1)), np.zeros(len(points)), reach, threshold)
+    assert holds.sum() > 30
+    for point in points[holds]:
+        offset = random_directions(300) * 4e-3 * np.sqrt(RNG.random((300, 1)))
+        offset -= np.outer(offset @ normal, normal)
+        assert field_size(bodies, point + offset).max() < threshold
+
+
+@pytest.mark.parametrize("shape", ["cylinder", "ring", "block"])
+def test_second_derivatives_of_the_dipole_remainder_stay_within_their_bound(shape):
+    # Independent check: finite differences of (exact field - point dipole) at 2 to 6
+    # bounding radii; one direction at a time is a lower estimate of the norm.
+    rotation = rotation_from_axis([0.3, -0.2, 1.0])
+    if shape == "block":
+        body = MagnetBody(shape, [0, 0, 0], rotation, [0.4, -0.3, 1.1], size=[0.03, 0.02, 0.008])
+    else:
+        body = MagnetBody(shape, [0, 0, 0], rotation, [0.4, -0.3, 1.1], diameter=0.03, height=0.006,
+                          inner_diameter=0.012 if shape == "ring" else 0.0)
+    from planner.physics.fields.sphere import dipole_field
+
+    def remainder(at):
+        return field_of_bodies([body], at) - dipole_field(at, body.moment, body.center)
+
+    points = random_directions(200) * (body.bounding_radius * RNG.uniform(2, 6, 200))[:, None]
+    h = 1e-3 * body.bounding_radius
+    second = np.max([np.linalg.norm(remainder(points + h * e) + remainder(points - h * e) - 2 * remainder(points),
+                                    axis=1) / h**2 for e in random_directions(6)], axis=0)
+    bound = dipole_remainder(BodyTable([body]), np.linalg.norm(points, axis=1)[:, None] - 2 * h, 2)[:, 0]
+    assert np.all(second <= bound)
+
+
+def test_start_radii_from_the_grid_are_just_beyond_where_the_bound_meets_each_threshold():
+    # Independent computation: plain bisection (60 halvings) of the same bound for each
+    # threshold; the grid's answer is never below it and at most 0.05 % above.
+    from planner.physics.zones import bounds
+
+    bodies = bench()
+    table = BodyTable(bodies)
+    thresholds = np.array([0.1e-3, 0.5e-3, 3e-3, 0.4])
+    half_gap = np.linalg.norm(table.centres - table.centres[0], axis=1) / 2
+
+    def bound(r):
+        distance = np.maximum(r, half_gap)
+        return np.sum(2 * bounds.K * table.moments / distance**3 + bounds.dipole_remainders(table, distance)[0])
+
+    for threshold, found in zip(thresholds, farthest_start_radii(bodies, 0, thresholds, table)):
+        low, high = bodies[0].bounding_radius * 1.000001, 10.0
+        if bound(low) < threshold:
+            assert found <= low
+            continue
+        for _ in range(60):
+            middle = 0.5 * (low + high)
+            low, high = (middle, high) if bound(middle) >= threshold else (low, middle)
+        assert high <= found <= high * 1.0005
+        assert bound(found) < threshold
+
+
+def test_source_free_only_where_no_other_magnet_enters_the_cell_beyond_the_radius():
+    disc = MagnetBody("cylinder", [0, 0, 0], np.eye(3), [0, 0, 1.2], diameter=0.02, height=0.005)
+    stacked = MagnetBody("cylinder", [0, 0, 0.005], np.eye(3), [0, 0, 1.2], diameter=0.02, height=0.005)
+    apart = MagnetBody("cylinder", [0.1, 0, 0], np.eye(3), [0, 0, 1.2], diameter=0.02, height=0.005)
+    # a stacked neighbour reaches across the bisecting plane: only a radius that holds it whole will do
+    table = BodyTable([disc, stacked])
+    assert not shell.source_free(table, 0, 0.012)
+    assert shell.source_free(table, 0, 0.005 + stacked.bounding_radius + 1e-3)
+    assert shell.source_free(BodyTable([disc, apart]), 0, 0.012)
+    assert not shell.source_free(BodyTable([disc, apart]), 0, 0.5 * disc.bounding_radius)
+
+
+def test_subset_table_equals_a_table_of_the_subset():
+    bodies = bench()
+    whole, part = BodyTable(bodies), BodyTable([bodies[2], bodies[0]])
+    picked = whole.subset([2, 0])
+    for name in ("vectors", "moments", "centres", "reach", "square", "shift", "flat", "curved"):
+        assert np.array_equal(getattr(picked, name), getattr(part, name))
+    distance = np.array([[0.05, 0.07]])
+    assert np.array_equal(dipole_remainder(picked, distance, 1), dipole_remainder(part, distance, 1))
+
+
+def test_forward_difference_jacobian_is_within_its_stated_error():
+    # Independent computation: central differences of the exact field with a 10x smaller
+    # step (error of order 1e-8 relative here).
+    bodies = bench()
+    table = BodyTable(bodies)
+    points = bodies[0].center + random_directions(100) * 0.03
+    model = local_model(bodies, points, 1e-7, table)
+    h = 1e-6
+    exact = np.stack([(field_of_bodies(bodies, points + h * e) - field_of_bodies(bodies, points - h * e)) / (2 * h)
+                      for e in np.eye(3)], axis=1)
+    difference = np.linalg.norm(model.jacobian - exact, axis=(1, 2))
+    assert np.all(difference <= model.jacobian_error + 1e-6 * np.linalg.norm(exact, axis=(1, 2)))
+
+
+def test_weak_magnet_beside_a_strong_one_covers_the_field_along_their_face():
+    # The strong disc's region reaches into the weak disc's cell along the plane between
+    # them: the weak magnet's distance must cover it. Brute force on the plane and beside it.
+    strong = MagnetBody("cylinder", [0, 0, 0], np.eye(3), [1.45, 0, 0], diameter=0.025, height=0.012)
+    weak = MagnetBody("cylinder", [0.05, 0, 0], np.eye(3), [0, 0, 0.4], diameter=0.006, height=0.003)
+    bodies = [strong, weak]
+    threshold = 3e-3
+    found = keep_out_radii(bodies, 1, [threshold])[0]
+    plane = np.array([0.025, 0, 0]) + random_directions(80000) * RNG.uniform(0, 0.2, 80000)[:, None]
+    plane[:, 0] = 0.025 + RNG.uniform(0, 2e-3, 80000)  # on the plane and just inside the weak cell
+    distance = np.linalg.norm(plane - weak.center, axis=1)
+    beyond = plane[distance > found]
+    assert field_size(bodies, beyond).max() < threshold

@@ -186,6 +186,7 @@ def dipole_assignment(bodies, points, allowed_error, table=None, distance=None):
 
     Returns ``far`` (n, b) bool, the summed field error bound (n,) [T] and the summed
     gradient error bound (n,) [T/m] of the dipole stand-ins (:func:`dipole_remainders`).
+    ``allowed_error`` [T] is one value or one per point (n,).
     At each point the bodies with the
     smallest remainders are dipoles as long as their summed field error stays within
     ``allowed_error``. ``table`` (a :class:`BodyTable`
@@ -203,7 +204,8 @@ def dipole_assignment(bodies, points, allowed_error, table=None, distance=None):
         order = np.argsort(remainder, axis=1, kind="stable")
         running = np.cumsum(np.take_along_axis(remainder, order, axis=1), axis=1)
         far = np.empty(remainder.shape, dtype=bool)
-        np.put_along_axis(far, order, running <= allowed_error, axis=1)
+        allowed = np.asarray(allowed_error, dtype=float)
+        np.put_along_axis(far, order, running <= (allowed[:, None] if allowed.ndim else allowed), axis=1)
         error = np.sum(np.where(far, remainder, 0.0), axis=1)
         gradient_error = np.sum(np.where(far, gradient_remainder, 0.0), axis=1)
     return far, error, gradient_error

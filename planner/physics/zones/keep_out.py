@@ -213,7 +213,8 @@ def keep_out_radii(bodies: list[MagnetBody], index: int, thresholds) -> np.ndarr
     """Keep-out distances of body ``index`` for several thresholds at once.
 
     See :func:`keep_out_radius` for the definition, method and guarantees; this form shares
-    the work between thresholds (each lower threshold's proven radius starts the next).
+    the work between thresholds: their proofs run together, and a lower threshold's proven
+    radius bounds the higher ones.
 
     Parameters
     ----------
@@ -240,13 +241,14 @@ def keep_out_radii(bodies: list[MagnetBody], index: int, thresholds) -> np.ndarr
     order = np.argsort(thresholds)
     # rays sampled once, out to the lowest threshold's start
     hits = _RaySamples(bodies, index, starts[order[0]], thresholds[order[0]], table).farthest(thresholds)
+    proven = _prove_all(bodies, index, thresholds, starts, table, hits)
     for position in order:
         threshold = thresholds[position]
         start = starts[position]
         if previous is not None:
             start = min(start, previous)
-        radius = _prove(bodies, index, threshold, start, table, hits[position])
-        if radius is None:  # magnets in the cell, or no proof at a close radius: walk cones
+        radius = min(proven[position], start)
+        if np.isnan(radius):  # magnets in the cell, or no proof at a close radius: walk cones
             radius = _refine(bodies, index, threshold, start, table, hits[position])
         radius = _verify(bodies, index, threshold, max(radius, floor), table=table)
         result[position] = previous = radius * (1 + 1e-9)  # rounding, outward
@@ -463,39 +465,57 @@ def _target(best):
     return max(best * (1 + RELATIVE_TARGET), best + ABSOLUTE_TARGET)
 
 
-def _prove(bodies, index, threshold, start, table, hit):
-    """Smallest radius proven by :func:`planner.physics.zones.shell.prove_beyond` near the best hit.
+def _prove_all(bodies, index, thresholds, starts, table, hits):
+    """Radii [m] proven by :func:`planner.physics.zones.shell.prove_all_beyond` near the best hits.
 
-    Tries the radius just outside the farthest point found at the threshold (4.5 % or
-    4.5 mm); where the proof meets points at the threshold, or cannot settle some caps, it
+    For each threshold, tries the radius just outside the farthest point found at it (4.5 %
+    or 4.5 mm); where the proof meets points at the threshold, or cannot settle some caps, it
     looks for points farther out along those directions and tries again outside them, and
-    failing that a radius 2 % larger. Returns None where the cell beyond the radius holds
-    another magnet (:func:`~planner.physics.zones.shell.source_free`) or after
-    ``PROOF_ATTEMPTS`` tries: the caller then walks cones instead.
+    failing that a radius 2 % larger. The thresholds still open are proven together, each
+    out to its start radius or to the radius already proven for a lower threshold, whichever
+    is smaller. NaN where the cell beyond the radius holds another magnet
+    (:func:`~planner.physics.zones.shell.source_free`) or after ``PROOF_ATTEMPTS`` tries: the
+    caller then walks cones instead.
     """
     centre = bodies[index].center
-    best = 0.0 if bodies[index].shape == "sphere" else bodies[index].bounding_radius
-    best = max(best, hit)
-    radius = max(_target(best), bodies[index].bounding_radius * (1 + 1e-6))
+    floor_hit = 0.0 if bodies[index].shape == "sphere" else bodies[index].bounding_radius
+    best = np.maximum(hits, floor_hit)
+    radius = np.array([max(_target(b), bodies[index].bounding_radius * (1 + 1e-6)) for b in best])
+    result = np.full(len(thresholds), np.nan)
+    open_ = np.ones(len(thresholds), bool)
     for _ in range(PROOF_ATTEMPTS):
-        if radius >= start:
-            return start
-        if not shell.source_free(table, index, radius):
-            return None
-        outcome = shell.prove_beyond(bodies, index, radius, start, threshold, table)
-        if outcome.proven:
-            return radius
-        points = outcome.witnesses if len(outcome.witnesses) else outcome.unproven
-        offsets = points - centre
-        axes = offsets / np.linalg.norm(offsets, axis=1)[:, None]
-        found = _probe(bodies, index, axes, np.full(len(axes), start), threshold, table=table, inner=best)
-        found = _face_search(bodies, index, points, start, threshold, table, found)
-        if found > best:
-            best = found
-            radius = max(_target(best), radius * (1 + 1e-3))
-        else:
-            radius *= 1 + LOOSER_STEP
-    return None
+        outer = starts.copy()
+        for k in range(len(thresholds)):
+            lower = (thresholds < thresholds[k]) & np.isfinite(result)
+            if lower.any():
+                outer[k] = min(outer[k], float(np.min(result[lower])))
+        tasks = []
+        for k in np.flatnonzero(open_):
+            if radius[k] >= outer[k]:
+                result[k], open_[k] = outer[k], False
+            elif not shell.source_free(table, index, radius[k]):
+                open_[k] = False
+            else:
+                tasks.append(k)
+        if not tasks:
+            break
+        outcomes = shell.prove_all_beyond(bodies, index, [(radius[k], outer[k], thresholds[k]) for k in tasks], table)
+        for k, outcome in zip(tasks, outcomes):
+            if outcome.proven:
+                result[k], open_[k] = radius[k], False
+                continue
+            points = outcome.witnesses if len(outcome.witnesses) else outcome.unproven
+            offsets = points - centre
+            axes = offsets / np.linalg.norm(offsets, axis=1)[:, None]
+            found = _probe(bodies, index, axes, np.full(len(axes), outer[k]), thresholds[k], table=table,
+                           inner=best[k])
+            found = _face_search(bodies, index, points, outer[k], thresholds[k], table, found)
+            if found > best[k]:
+                best[k] = found
+                radius[k] = max(_target(found), radius[k] * (1 + 1e-3))
+            else:
+                radius[k] *= 1 + LOOSER_STEP
+    return result
 
 
 def _refine(bodies, index, threshold, start, table, hit):

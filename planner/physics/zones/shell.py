@@ -69,7 +69,7 @@ from planner.physics.zones.certify import (LocalModel, _dipole_field_and_jacobia
                                            local_model, patch_below, taylor_holds)
 from planner.physics.zones.sampling import cone_of_triangle, icosahedron_triangles, subdivide
 
-__all__ = ["ShellOutcome", "source_free", "prove_beyond"]
+__all__ = ["ShellOutcome", "source_free", "prove_beyond", "prove_all_beyond"]
 
 IGNORED_SHARE = 0.01  # of the threshold, for the bodies left out of the per-patch work
 MODEL_SHARE = 2e-3  # of the threshold, for the dipole stand-ins' error at each patch centre
@@ -78,6 +78,7 @@ LAST_CAP_LEVEL = 6
 FACE_RING_RATIO = 1.15  # radial cells of the face patches, as a ratio of distances from c
 FACE_SECTORS = 16
 FACE_SPLITS = 6
+GROUP_SHARE = 0.6  # tasks needing at least this share of the most bodies any needs are proven together
 
 
 class ShellOutcome(NamedTuple):
@@ -106,6 +107,26 @@ class _Cell:
         self.gaps = gaps[keep]
         self.normals = offsets[keep] / self.gaps[:, None]
 
+    @property
+    def feet(self):
+        """Foot of the centre on each bisecting plane (k, 3) [m]."""
+        return self.centre + 0.5 * self.gaps[:, None] * self.normals
+
+    @property
+    def e1(self):
+        """A unit vector in each bisecting plane (k, 3)."""
+        if not hasattr(self, "_e1"):
+            helper = np.where(np.abs(self.normals[:, :1]) < 0.9, np.array([[1.0, 0.0, 0.0]]),
+                              np.array([[0.0, 1.0, 0.0]]))
+            e1 = np.cross(self.normals, helper)
+            self._e1 = e1 / np.linalg.norm(e1, axis=1)[:, None]
+        return self._e1
+
+    @property
+    def e2(self):
+        """The unit vector completing (e1, e2, normal) in each bisecting plane (k, 3)."""
+        return np.cross(self.normals, self.e1)
+
     def excess(self, points):
         """Largest (x - c) . n_i - g_i / 2 over the other centres (n,) [m]: > 0 outside the cell."""
         if not len(self.gaps):
@@ -128,36 +149,24 @@ def source_free(table: BodyTable, index: int, radius: float) -> bool:
     return bool(reach[index] < radius and np.all(clear[others]))
 
 
-def _kept_bodies(table, index, radius, budget):
-    """Indices of the bodies to model at the patches (``index`` first) and the summed bound [T]
-    on the field of the others anywhere in the cell beyond ``radius``."""
-    gaps = np.linalg.norm(table.centres - table.centres[index], axis=1)
-    distance = np.maximum(radius, 0.5 * gaps)
-    bound = 2 * K * table.moments / distance**3 + dipole_remainder(table, distance, 0)
-    bound[index] = np.inf
-    order = np.argsort(bound, kind="stable")
-    left_out = order[np.cumsum(bound[order]) <= budget]
-    kept = np.setdiff1d(np.arange(len(gaps)), left_out)
-    kept = np.concatenate([[index], kept[kept != index]])
-    return kept, float(np.sum(bound[left_out]))
-
-
 def _dipole_cap_holds(model: LocalModel, own_jacobian, moment, radius, axes, half_angles, rest_second, threshold):
     """The cap bound of the module docstring, with the magnet's own dipole taken exactly.
 
     ``own_jacobian`` (n, 3, 3): the own point dipole's at the cap centres; ``moment`` (3,)
-    [A m^2]; ``rest_second`` (n,) [T/m^2]: a bound on ||D^2 V|| over each cap's ball (the
-    own magnet minus its dipole, and the other bodies). Returns (n,) bool.
+    [A m^2]; ``radius`` [m] and ``threshold`` [T]: one value or one per cap; ``rest_second``
+    (n,) [T/m^2]: a bound on ||D^2 V|| over each cap's ball (the own magnet minus its
+    dipole, and the other bodies). Returns (n,) bool.
     """
     n = axes
+    radius = np.broadcast_to(np.asarray(radius, dtype=float), half_angles.shape)
     chord = 2 * np.sin(half_angles / 2)
     rho = radius * chord
     cosine, sine = np.cos(half_angles), np.sin(half_angles)
     scale = 3 * K / radius**3
     rest_jacobian = model.jacobian - own_jacobian
     along_moment = n @ moment
-    a = (scale * (n[:, :, None] * moment[None, None, :] + along_moment[:, None, None] * np.eye(3))
-         + radius * np.swapaxes(rest_jacobian, 1, 2))
+    a = (scale[:, None, None] * (n[:, :, None] * moment[None, None, :] + along_moment[:, None, None] * np.eye(3))
+         + radius[:, None, None] * np.swapaxes(rest_jacobian, 1, 2))
     p0 = model.field
     a_n = np.einsum("nij,nj->ni", a, n)
     at_p = np.einsum("nji,nj->ni", a, p0)
@@ -180,57 +189,93 @@ def _dipole_cap_holds(model: LocalModel, own_jacobian, moment, radius, axes, hal
     return np.nan_to_num(bound, nan=np.inf) < threshold * (1 - 1e-9)
 
 
-def _caps(bodies, table, cell, radius, threshold, proof_threshold, left_out):
-    """Cover the sphere of ``radius`` within the cell with proven caps (bodies: the kept ones,
-    the magnet first). Returns a :class:`ShellOutcome`."""
-    centre, moment = cell.centre, table.vectors[0]
-    own = table.subset([0])
-    triangles = icosahedron_triangles(FIRST_CAP_LEVEL)
-    for level in range(FIRST_CAP_LEVEL, LAST_CAP_LEVEL + 1):
-        axes, half_angles = cone_of_triangle(triangles)
-        points = centre + radius * axes
-        excess = cell.excess(points)
-        chord = 2 * radius * np.sin(half_angles / 2)
-        inside = excess - chord <= 0  # caps wholly in another cell have nothing to prove
-        triangles, axes, half_angles, points = triangles[inside], axes[inside], half_angles[inside], points[inside]
-        excess, chord = excess[inside], chord[inside]
-        if not len(points):
-            return ShellOutcome(True, np.empty((0, 3)), np.empty((0, 3)))
-        model = local_model(bodies, points, MODEL_SHARE * threshold, table)
-        size, gradient, gradient_error, slope = gradient_parts(model)
-        witness = (size - model.error - left_out >= threshold) & (excess <= 0)
+class _Task:
+    """One radius and threshold to prove, and how far its caps and face patches have got."""
+
+    def __init__(self, radius, outer, threshold, left_out):
+        self.radius, self.outer, self.threshold, self.left_out = radius, outer, threshold, left_out
+        self.proof_threshold = threshold - left_out
+        self.phase, self.level = "caps", FIRST_CAP_LEVEL
+        self.triangles = icosahedron_triangles(FIRST_CAP_LEVEL)
+        self.cells = None  # face cells: rows, s1, s2, phi1, phi2
+        self.outcome = None
+
+    def patches(self, cell):
+        """This task's patches of the current phase that reach into the cell, as a dict of
+        arrays (advancing past phases with nothing left to prove); None once decided."""
+        while self.outcome is None:
+            if self.phase == "caps":
+                axes, half_angles = cone_of_triangle(self.triangles)
+                points = cell.centre + self.radius * axes
+                chord = 2 * self.radius * np.sin(half_angles / 2)
+                excess = cell.excess(points)
+                inside = excess - chord <= 0  # caps wholly in another cell have nothing to prove
+                if inside.any():
+                    self.triangles = self.triangles[inside]
+                    return dict(points=points[inside], axes=axes[inside], chord=chord[inside],
+                                along=self.radius * (1 - np.cos(half_angles[inside])),
+                                across=self.radius * np.sin(half_angles[inside]), half_angles=half_angles[inside],
+                                excess=excess[inside], cap=np.ones(inside.sum(), bool),
+                                on_face=np.zeros(inside.sum(), bool))
+                self._next_phase(cell)
+            else:
+                rows, s1, s2, phi1, phi2 = self.cells
+                s_mid, phi_mid = 0.5 * (s1 + s2), 0.5 * (phi1 + phi2)
+                points = cell.feet[rows] + s_mid[:, None] * (np.cos(phi_mid)[:, None] * cell.e1[rows]
+                                                             + np.sin(phi_mid)[:, None] * cell.e2[rows])
+                # every point (s, phi) of the cell is within this of its centre point
+                reach = 0.5 * (s2 - s1) + 2 * s2 * np.sin(0.25 * (phi2 - phi1))
+                excess = cell.excess(points)
+                inside = excess - reach <= 0
+                if inside.any():
+                    self.cells = tuple(part[inside] for part in self.cells)
+                    count = int(inside.sum())
+                    # the centre is on the plane of its own face; any other plane it crosses is outside
+                    return dict(points=points[inside], axes=cell.normals[rows[inside]], chord=reach[inside],
+                                along=np.zeros(count), across=reach[inside], half_angles=np.zeros(count),
+                                excess=excess[inside] - 1e-12 * cell.gaps[rows[inside]],
+                                cap=np.zeros(count, bool), on_face=np.ones(count, bool))
+                self.outcome = ShellOutcome(True, _NONE, _NONE)
+        return None
+
+    def _next_phase(self, cell):
+        if self.phase == "caps":
+            self.phase, self.level = "faces", 0
+            self.cells = _face_cells(cell, self.radius, self.outer)
+            if self.cells is not None:
+                return
+        self.outcome = ShellOutcome(True, _NONE, _NONE)
+
+    def settle(self, cell, points, witness, hopeless, holds):
+        """Take the verdicts on this task's patches: decide, or split the open ones."""
         if witness.any():
-            return ShellOutcome(False, points[witness], np.empty((0, 3)))
-        # a centre in the cell that no smaller cap can prove (the proof needs the kept
-        # bodies' field below proof_threshold there)
-        hopeless = (size - model.error >= proof_threshold) & (excess <= 0)
-        if hopeless.any():
-            return ShellOutcome(False, np.empty((0, 3)), points[hopeless])
-        first_each, second_each = derivative_bounds(model.geometry, chord, (1, 2), per_body=True)
-        _, own_jacobian = _dipole_field_and_jacobian([bodies[0]], points, np.ones((len(points), 1), bool), own)
-        rest_second = (np.sum(second_each[:, 1:], axis=1)
-                       + dipole_remainder(own, (radius - chord)[:, None], 2)[:, 0])
-        holds = _dipole_cap_holds(model, own_jacobian, moment, radius, axes, half_angles, rest_second,
-                                  proof_threshold)
-        if not holds.all():
-            rest = ~holds
-            along, across = axis_parts(gradient[rest], gradient_error[rest], axes[rest])
-            bulge = radius * (1 - np.cos(half_angles[rest]))
-            holds[rest] = taylor_holds(size[rest] + model.error[rest], along, across, slope[rest],
-                                       np.sum(first_each[rest], axis=1), np.sum(second_each[rest], axis=1),
-                                       bulge, radius * np.sin(half_angles[rest]), proof_threshold)
-        if holds.all():
-            return ShellOutcome(True, np.empty((0, 3)), np.empty((0, 3)))
-        if level < LAST_CAP_LEVEL:
-            triangles = subdivide(triangles[~holds])
-    return ShellOutcome(False, np.empty((0, 3)), points[~holds])
+            self.outcome = ShellOutcome(False, points[witness], _NONE)
+        elif hopeless.any():
+            self.outcome = ShellOutcome(False, _NONE, points[hopeless])
+        elif holds.all():
+            self._next_phase(cell)
+        elif self.level == (LAST_CAP_LEVEL if self.phase == "caps" else FACE_SPLITS):
+            self.outcome = ShellOutcome(False, _NONE, points[~holds])
+        elif self.phase == "caps":
+            self.triangles = subdivide(self.triangles[~holds])
+            self.level += 1
+        else:
+            rows, s1, s2, phi1, phi2 = (part[~holds] for part in self.cells)
+            s_mid, phi_mid = 0.5 * (s1 + s2), 0.5 * (phi1 + phi2)
+            self.cells = (np.tile(rows, 4), np.concatenate([s1, s_mid, s1, s_mid]),
+                          np.concatenate([s_mid, s2, s_mid, s2]), np.concatenate([phi1, phi1, phi_mid, phi_mid]),
+                          np.concatenate([phi_mid, phi_mid, phi2, phi2]))
+            self.level += 1
+
+
+_NONE = np.empty((0, 3))
 
 
 def _face_cells(cell, radius, outer):
     """The first polar cells of every face between ``radius`` and ``outer`` [m].
 
     Returns per cell: face row (into cell.normals), s1, s2 [m] (distances from the foot of c
-    on the plane) and phi1, phi2 [rad].
+    on the plane) and phi1, phi2 [rad]; None if no face comes within ``outer``.
     """
     rows, inner_s, outer_s, first, last = [], [], [], [], []
     for row, gap in enumerate(cell.gaps):
@@ -253,51 +298,14 @@ def _face_cells(cell, radius, outer):
     return tuple(np.concatenate(parts) for parts in (rows, inner_s, outer_s, first, last))
 
 
-def _faces(bodies, table, cell, radius, outer, threshold, proof_threshold, left_out):
-    """Cover the cell's faces between ``radius`` and ``outer`` with proven flat patches."""
-    cells = _face_cells(cell, radius, outer)
-    if cells is None:
-        return ShellOutcome(True, np.empty((0, 3)), np.empty((0, 3)))
-    rows, s1, s2, phi1, phi2 = cells
-    normals = cell.normals
-    helper = np.where(np.abs(normals[:, :1]) < 0.9, np.array([[1.0, 0.0, 0.0]]), np.array([[0.0, 1.0, 0.0]]))
-    e1 = np.cross(normals, helper)
-    e1 /= np.linalg.norm(e1, axis=1)[:, None]
-    e2 = np.cross(normals, e1)
-    feet = cell.centre + 0.5 * cell.gaps[:, None] * normals
-    for split in range(FACE_SPLITS + 1):
-        s_mid, phi_mid = 0.5 * (s1 + s2), 0.5 * (phi1 + phi2)
-        points = (feet[rows] + s_mid[:, None] * (np.cos(phi_mid)[:, None] * e1[rows]
-                                                  + np.sin(phi_mid)[:, None] * e2[rows]))
-        # every point (s, phi) of the cell is within this of its centre point
-        reach = 0.5 * (s2 - s1) + 2 * s2 * np.sin(0.25 * (phi2 - phi1))
-        excess = cell.excess(points)
-        inside = excess - reach <= 0
-        rows, s1, s2, phi1, phi2 = rows[inside], s1[inside], s2[inside], phi1[inside], phi2[inside]
-        points, reach, excess = points[inside], reach[inside], excess[inside]
-        if not len(points):
-            break
-        model = local_model(bodies, points, MODEL_SHARE * threshold, table)
-        size = np.sqrt(np.sum(model.field**2, axis=1))
-        # the centre is on the plane of its own face; any other plane it crosses is outside
-        witness = (size - model.error - left_out >= threshold) & (excess <= 1e-12 * cell.gaps[rows])
-        if witness.any():
-            return ShellOutcome(False, points[witness], np.empty((0, 3)))
-        hopeless = (size - model.error >= proof_threshold) & (excess <= 1e-12 * cell.gaps[rows])
-        if hopeless.any():
-            return ShellOutcome(False, np.empty((0, 3)), points[hopeless])
-        holds = patch_below(model, normals[rows], np.zeros(len(points)), reach, proof_threshold)
-        if holds.all():
-            break
-        if split == FACE_SPLITS:
-            return ShellOutcome(False, np.empty((0, 3)), points[~holds])
-        keep = ~holds
-        rows, s1, s2, phi1, phi2 = rows[keep], s1[keep], s2[keep], phi1[keep], phi2[keep]
-        s_mid, phi_mid = 0.5 * (s1 + s2), 0.5 * (phi1 + phi2)
-        rows = np.tile(rows, 4)
-        s1, s2 = np.concatenate([s1, s_mid, s1, s_mid]), np.concatenate([s_mid, s2, s_mid, s2])
-        phi1, phi2 = np.concatenate([phi1, phi1, phi_mid, phi_mid]), np.concatenate([phi_mid, phi_mid, phi2, phi2])
-    return ShellOutcome(True, np.empty((0, 3)), np.empty((0, 3)))
+def _bodies_bound(table, index, radius):
+    """Bound [T] on each body's field anywhere in the cell of ``index`` beyond ``radius`` (b,);
+    inf for ``index`` itself."""
+    gaps = np.linalg.norm(table.centres - table.centres[index], axis=1)
+    distance = np.maximum(radius, 0.5 * gaps)
+    bound = 2 * K * table.moments / distance**3 + dipole_remainder(table, distance, 0)
+    bound[index] = np.inf
+    return bound
 
 
 def prove_beyond(bodies, index: int, radius: float, outer: float, threshold: float,
@@ -326,15 +334,93 @@ def prove_beyond(bodies, index: int, radius: float, outer: float, threshold: flo
     Notes
     -----
     Valid only where :func:`source_free` holds for ``radius``; the caller checks it. The
-    method and its bounds: the module docstring.
+    method and its bounds: the module docstring. :func:`prove_all_beyond` does several
+    radii and thresholds at once.
+    """
+    return prove_all_beyond(bodies, index, [(radius, outer, threshold)], table)[0]
+
+
+def prove_all_beyond(bodies, index: int, tasks, table: BodyTable | None = None) -> list[ShellOutcome]:
+    """:func:`prove_beyond` for several ``tasks`` (radius, outer, threshold) of one magnet at once.
+
+    The tasks' caps and face patches at each step share one evaluation of the field model,
+    with the bodies any of them needs: the same verdicts as one by one, in fewer and larger
+    numpy calls.
     """
     table = BodyTable(bodies) if table is None else table
-    kept, left_out = _kept_bodies(table, index, radius, IGNORED_SHARE * threshold)
-    part = table.subset(kept)
-    members = [bodies[i] for i in kept]
     cell = _Cell(table, index)
-    proof_threshold = threshold - left_out
-    outcome = _caps(members, part, cell, radius, threshold, proof_threshold, left_out)
-    if not outcome.proven:
-        return outcome
-    return _faces(members, part, cell, radius, outer, threshold, proof_threshold, left_out)
+    bounds = [_bodies_bound(table, index, radius) for radius, _, _ in tasks]
+    needed = []
+    for bound, (_, _, threshold) in zip(bounds, tasks):
+        order = np.argsort(bound, kind="stable")
+        needed.append(set(order[np.cumsum(bound[order]) > IGNORED_SHARE * threshold].tolist()) | {index})
+    outcomes = [None] * len(tasks)
+    # Tasks that need about as many bodies share their evaluations; a task that needs far
+    # fewer would pay for the others' bodies at every point, so it goes in a group of its own.
+    by_size = sorted(range(len(tasks)), key=lambda k: -len(needed[k]))
+    while by_size:
+        largest = len(needed[by_size[0]])
+        group = by_size[:1] + [k for k in by_size[1:] if len(needed[k]) >= GROUP_SHARE * largest]
+        by_size = [k for k in by_size if k not in group]
+        kept = set().union(*(needed[k] for k in group))
+        kept = np.array([index] + sorted(kept - {index}), dtype=np.intp)
+        left_out = np.ones(len(bodies), bool)
+        left_out[kept] = False
+        work = [_Task(*tasks[k], float(np.sum(bounds[k][left_out]))) for k in group]
+        for k, outcome in zip(group, _prove_tasks([bodies[i] for i in kept], table.subset(kept), cell, work)):
+            outcomes[k] = outcome
+    return outcomes
+
+
+def _prove_tasks(members, part, cell, work):
+    """Run the tasks ``work`` to their outcomes; ``members`` the bodies modelled (the magnet
+    first) and ``part`` their table."""
+    own = part.subset([0])
+    while True:
+        open_ = [(task, task.patches(cell)) for task in work]
+        open_ = [(task, patches) for task, patches in open_ if patches is not None]
+        if not open_:
+            return [task.outcome for task in work]
+        sizes = [len(patches["points"]) for _, patches in open_]
+        batch = {key: np.concatenate([patches[key] for _, patches in open_]) for key in open_[0][1]}
+        per_task = lambda name: np.repeat([getattr(task, name) for task, _ in open_], sizes)  # noqa: E731
+        threshold, proof_threshold, left, radius = (per_task(name) for name in
+                                                    ("threshold", "proof_threshold", "left_out", "radius"))
+        points, axes, chord, cap = batch["points"], batch["axes"], batch["chord"], batch["cap"]
+        model = local_model(members, points, MODEL_SHARE * threshold, part)
+        size, gradient, gradient_error, slope = gradient_parts(model)
+        inside = batch["excess"] <= 0
+        witness = (size - model.error - left >= threshold) & inside
+        # a centre in the cell that no smaller patch can prove (the proof needs the kept
+        # bodies' field below proof_threshold there)
+        hopeless = (size - model.error >= proof_threshold) & inside
+        first_each, second_each = derivative_bounds(model.geometry, chord, (1, 2), per_body=True)
+        holds = np.zeros(len(points), bool)
+        if cap.any():
+            rows = np.flatnonzero(cap)
+            _, own_jacobian = _dipole_field_and_jacobian([members[0]], points[rows], np.ones((len(rows), 1), bool),
+                                                         own)
+            rest_second = (np.sum(second_each[rows, 1:], axis=1)
+                           + dipole_remainder(own, (radius[rows] - chord[rows])[:, None], 2)[:, 0])
+            holds[rows] = _dipole_cap_holds(_take(model, rows), own_jacobian, part.vectors[0], radius[rows],
+                                            axes[rows], batch["half_angles"][rows], rest_second,
+                                            proof_threshold[rows])
+        rows = np.flatnonzero(~holds)
+        if len(rows):
+            along, across = axis_parts(gradient[rows], gradient_error[rows], axes[rows])
+            holds[rows] = taylor_holds(size[rows] + model.error[rows], along, across, slope[rows],
+                                       np.sum(first_each[rows], axis=1), np.sum(second_each[rows], axis=1),
+                                       batch["along"][rows], batch["across"][rows], proof_threshold[rows])
+        start = 0
+        for (task, _), count in zip(open_, sizes):
+            span = slice(start, start + count)
+            task.settle(cell, points[span], witness[span], hopeless[span], holds[span])
+            start += count
+
+
+def _take(model: LocalModel, rows) -> LocalModel:
+    """The model at the points ``rows`` only."""
+    geometry = tuple(part[rows] if isinstance(part, np.ndarray) and part.ndim == 2 else part
+                     for part in model.geometry)
+    return LocalModel(model.field[rows], model.jacobian[rows], model.error[rows], model.jacobian_error[rows],
+                      geometry)

@@ -35,6 +35,7 @@ __all__ = ["keep_out_radius", "keep_out_radii", "farthest_start_radius", "farthe
 RELATIVE_TARGET = 0.045  # refine until the proven radius is within 4.5 % ...
 ABSOLUTE_TARGET = 4.5e-3  # ... or 4.5 mm of the farthest point found at the threshold [m]
 PROBED_CONES = 48
+RAYS = 128  # directions sampled for points at the thresholds
 START_LEVEL = 2  # 320 cones of about 9 degrees to begin with
 MAX_LEVEL = 7
 MAX_CONES = 24000
@@ -409,7 +410,7 @@ class _RaySamples:
     error (own cell only, -inf elsewhere), with the error allowance of the lowest threshold.
     """
 
-    def __init__(self, bodies, index, reach, lowest, table, count=PROBED_CONES * 4, samples=24):
+    def __init__(self, bodies, index, reach, lowest, table, count=RAYS, samples=24):
         self.bodies, self.index, self.table = bodies, index, table
         self.directions = fibonacci_directions(count)
         floor = bodies[index].bounding_radius * (1 + 1e-6)
@@ -551,7 +552,7 @@ def _refine(bodies, index, threshold, start, table, hit):
     return settled  # not reached
 
 
-def _verify(bodies, index, threshold, radius, directions=200, table=None):
+def _verify(bodies, index, threshold, radius, directions=120, table=None):
     """Belt and braces: sample just outside ``radius``; grow past any sample at threshold.
 
     A guard against a fault in the proofs, not part of them: two shells of ``directions``

@@ -262,3 +262,17 @@ def test_weak_magnet_beside_a_strong_one_covers_the_field_along_their_face():
     distance = np.linalg.norm(plane - weak.center, axis=1)
     beyond = plane[distance > found]
     assert field_size(bodies, beyond).max() < threshold
+
+
+def test_child_indices_name_the_subdivided_triangles_and_cached_cones_match():
+    # identity: the children found by index in the next level's tiling are the triangles
+    # subdivide() makes of the same parents, and the cached caps are cone_of_triangle's
+    from planner.physics.zones.sampling import (child_indices, cone_of_triangle, icosahedron_cones,
+                                                icosahedron_triangles, subdivide)
+
+    parents = np.array([0, 5, 77, 319])
+    children = child_indices(parents, 2)
+    assert np.array_equal(icosahedron_triangles(3)[children], subdivide(icosahedron_triangles(2)[parents]))
+    axes, half_angles = cone_of_triangle(icosahedron_triangles(3)[children])
+    assert np.array_equal(icosahedron_cones(3)[0][children], axes)
+    assert np.array_equal(icosahedron_cones(3)[1][children], half_angles)

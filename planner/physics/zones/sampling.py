@@ -40,6 +40,24 @@ def icosahedron_triangles(level: int) -> np.ndarray:
     return _icosahedron(level).copy()
 
 
+@lru_cache(maxsize=8)
+def icosahedron_cones(level: int):
+    """Axis (n, 3) and half-angle (n,) [rad] of the cap of every triangle of
+    :func:`icosahedron_triangles` (read-only arrays, computed once per level)."""
+    axes, half_angles = cone_of_triangle(_icosahedron(level))
+    axes.setflags(write=False)
+    half_angles.setflags(write=False)
+    return axes, half_angles
+
+
+def child_indices(indices: np.ndarray, level: int) -> np.ndarray:
+    """Indices, in the tiling of ``level + 1``, of the four children of the triangles ``indices``
+    of ``level``: :func:`subdivide` lists child k of every triangle together, so child k of
+    triangle p is k * 20 * 4**level + p."""
+    count = 20 * 4**level
+    return np.concatenate([k * count + indices for k in range(4)])
+
+
 def subdivide(triangles: np.ndarray) -> np.ndarray:
     """Split each spherical triangle (n, 3, 3) into four (4n, 3, 3) at its edge midpoints."""
     a, b, c = triangles[:, 0], triangles[:, 1], triangles[:, 2]

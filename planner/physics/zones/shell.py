@@ -67,7 +67,7 @@ import numpy as np
 from planner.physics.zones.bounds import K, BodyTable, derivative_bounds, dipole_remainder
 from planner.physics.zones.certify import (LocalModel, _dipole_field_and_jacobian, axis_parts, gradient_parts,
                                            local_model, patch_below, taylor_holds)
-from planner.physics.zones.sampling import cone_of_triangle, icosahedron_triangles, subdivide
+from planner.physics.zones.sampling import child_indices, icosahedron_cones
 
 __all__ = ["ShellOutcome", "source_free", "prove_beyond", "prove_all_beyond"]
 
@@ -196,7 +196,7 @@ class _Task:
         self.radius, self.outer, self.threshold, self.left_out = radius, outer, threshold, left_out
         self.proof_threshold = threshold - left_out
         self.phase, self.level = "caps", FIRST_CAP_LEVEL
-        self.triangles = icosahedron_triangles(FIRST_CAP_LEVEL)
+        self.triangles = np.arange(20 * 4**FIRST_CAP_LEVEL)  # indices into the level's tiling
         self.cells = None  # face cells: rows, s1, s2, phi1, phi2
         self.outcome = None
 
@@ -205,7 +205,7 @@ class _Task:
         arrays (advancing past phases with nothing left to prove); None once decided."""
         while self.outcome is None:
             if self.phase == "caps":
-                axes, half_angles = cone_of_triangle(self.triangles)
+                axes, half_angles = (part[self.triangles] for part in icosahedron_cones(self.level))
                 points = cell.centre + self.radius * axes
                 chord = 2 * self.radius * np.sin(half_angles / 2)
                 excess = cell.excess(points)
@@ -257,7 +257,7 @@ class _Task:
         elif self.level == (LAST_CAP_LEVEL if self.phase == "caps" else FACE_SPLITS):
             self.outcome = ShellOutcome(False, _NONE, points[~holds])
         elif self.phase == "caps":
-            self.triangles = subdivide(self.triangles[~holds])
+            self.triangles = child_indices(self.triangles[~holds], self.level)
             self.level += 1
         else:
             rows, s1, s2, phi1, phi2 = (part[~holds] for part in self.cells)

@@ -18,10 +18,12 @@ So the keep-out question at one radius is two 2-D proofs, instead of walking 3-D
 
 **Bodies left out.** Every point of that region is at least R from every centre (it is at
 least R from c, and no other centre is nearer) and at least half the gap from each other
-centre. Bodies whose summed dipole bound there, 2 k m / e^3 plus the dipole remainder with
-e = max(R, gap / 2) (:func:`~planner.physics.zones.bounds.dipole_remainders`), fits in
+centre; a point of the sphere is also at least |gap - R| from each (triangle inequality).
+Bodies whose summed dipole bound there, 2 k m / e^3 plus the dipole remainder with e the
+smallest such distance (:func:`~planner.physics.zones.bounds.dipole_remainders`), fits in
 ``IGNORED_SHARE`` of the threshold are left out of the per-patch work, and the patches are
-proven against the threshold less that sum.
+proven against the threshold less that sum. The caps and the face patches are proven in
+turn, each with its own set of bodies: on the sphere far fewer are needed.
 
 **Caps: the magnet's own dipole taken exactly.** On the sphere x = c + R u (|u| = 1) the
 field of the magnet's own point dipole m is D(u) = k (3 (u.m) u - m) / R^3, a quadratic
@@ -72,7 +74,7 @@ from planner.physics.zones.sampling import child_indices, icosahedron_cones
 __all__ = ["ShellOutcome", "source_free", "prove_beyond", "prove_all_beyond"]
 
 IGNORED_SHARE = 0.01  # of the threshold, for the bodies left out of the per-patch work
-MODEL_SHARE = 2e-3  # of the threshold, for the dipole stand-ins' error at each patch centre
+MODEL_SHARE = 1e-2  # of the threshold, for the dipole stand-ins' error at each patch centre
 FIRST_CAP_LEVEL = 1  # 80 caps of about 18 degrees to begin with
 LAST_CAP_LEVEL = 6
 FACE_RING_RATIO = 1.15  # radial cells of the face patches, as a ratio of distances from c
@@ -190,15 +192,20 @@ def _dipole_cap_holds(model: LocalModel, own_jacobian, moment, radius, axes, hal
 
 
 class _Task:
-    """One radius and threshold to prove, and how far its caps and face patches have got."""
+    """One radius and threshold to prove on the caps or on the face patches, and how far it has got."""
 
-    def __init__(self, radius, outer, threshold, left_out):
+    def __init__(self, radius, outer, threshold, left_out, phase, cell):
         self.radius, self.outer, self.threshold, self.left_out = radius, outer, threshold, left_out
         self.proof_threshold = threshold - left_out
-        self.phase, self.level = "caps", FIRST_CAP_LEVEL
-        self.triangles = np.arange(20 * 4**FIRST_CAP_LEVEL)  # indices into the level's tiling
-        self.cells = None  # face cells: rows, s1, s2, phi1, phi2
-        self.outcome = None
+        self.phase, self.outcome = phase, None
+        if phase == "caps":
+            self.level = FIRST_CAP_LEVEL
+            self.triangles = np.arange(20 * 4**FIRST_CAP_LEVEL)  # indices into the level's tiling
+        else:
+            self.level = 0
+            self.cells = _face_cells(cell, radius, outer)  # rows, s1, s2, phi1, phi2
+            if self.cells is None:
+                self.outcome = _PROVEN
 
     def patches(self, cell):
         """This task's patches of the current phase that reach into the cell, as a dict of
@@ -215,9 +222,8 @@ class _Task:
                     return dict(points=points[inside], axes=axes[inside], chord=chord[inside],
                                 along=self.radius * (1 - np.cos(half_angles[inside])),
                                 across=self.radius * np.sin(half_angles[inside]), half_angles=half_angles[inside],
-                                excess=excess[inside], cap=np.ones(inside.sum(), bool),
-                                on_face=np.zeros(inside.sum(), bool))
-                self._next_phase(cell)
+                                excess=excess[inside], cap=np.ones(inside.sum(), bool))
+                self.outcome = _PROVEN
             else:
                 rows, s1, s2, phi1, phi2 = self.cells
                 s_mid, phi_mid = 0.5 * (s1 + s2), 0.5 * (phi1 + phi2)
@@ -234,17 +240,9 @@ class _Task:
                     return dict(points=points[inside], axes=cell.normals[rows[inside]], chord=reach[inside],
                                 along=np.zeros(count), across=reach[inside], half_angles=np.zeros(count),
                                 excess=excess[inside] - 1e-12 * cell.gaps[rows[inside]],
-                                cap=np.zeros(count, bool), on_face=np.ones(count, bool))
-                self.outcome = ShellOutcome(True, _NONE, _NONE)
+                                cap=np.zeros(count, bool))
+                self.outcome = _PROVEN
         return None
-
-    def _next_phase(self, cell):
-        if self.phase == "caps":
-            self.phase, self.level = "faces", 0
-            self.cells = _face_cells(cell, self.radius, self.outer)
-            if self.cells is not None:
-                return
-        self.outcome = ShellOutcome(True, _NONE, _NONE)
 
     def settle(self, cell, points, witness, hopeless, holds):
         """Take the verdicts on this task's patches: decide, or split the open ones."""
@@ -253,7 +251,7 @@ class _Task:
         elif hopeless.any():
             self.outcome = ShellOutcome(False, _NONE, points[hopeless])
         elif holds.all():
-            self._next_phase(cell)
+            self.outcome = _PROVEN
         elif self.level == (LAST_CAP_LEVEL if self.phase == "caps" else FACE_SPLITS):
             self.outcome = ShellOutcome(False, _NONE, points[~holds])
         elif self.phase == "caps":
@@ -269,6 +267,7 @@ class _Task:
 
 
 _NONE = np.empty((0, 3))
+_PROVEN = ShellOutcome(True, _NONE, _NONE)
 
 
 def _face_cells(cell, radius, outer):
@@ -298,11 +297,16 @@ def _face_cells(cell, radius, outer):
     return tuple(np.concatenate(parts) for parts in (rows, inner_s, outer_s, first, last))
 
 
-def _bodies_bound(table, index, radius):
-    """Bound [T] on each body's field anywhere in the cell of ``index`` beyond ``radius`` (b,);
-    inf for ``index`` itself."""
+def _bodies_bound(table, index, radius, on_sphere):
+    """Bound [T] on each body's field (b,) on the cell's sphere of ``radius`` (``on_sphere``)
+    or anywhere in the cell beyond it; inf for ``index`` itself.
+
+    Every point of the cell beyond the radius is at least that far from every centre and at
+    least half the gap from each other centre; a point of the sphere is also at least
+    |gap - radius| from each (triangle inequality), far more for distant bodies.
+    """
     gaps = np.linalg.norm(table.centres - table.centres[index], axis=1)
-    distance = np.maximum(radius, 0.5 * gaps)
+    distance = np.maximum(radius, np.abs(gaps - radius) if on_sphere else 0.5 * gaps)
     bound = 2 * K * table.moments / distance**3 + dipole_remainder(table, distance, 0)
     bound[index] = np.inf
     return bound
@@ -349,7 +353,17 @@ def prove_all_beyond(bodies, index: int, tasks, table: BodyTable | None = None) 
     """
     table = BodyTable(bodies) if table is None else table
     cell = _Cell(table, index)
-    bounds = [_bodies_bound(table, index, radius) for radius, _, _ in tasks]
+    outcomes = _prove_phase(bodies, index, tasks, table, cell, "caps")
+    faces = [k for k, outcome in enumerate(outcomes) if outcome.proven]
+    for k, outcome in zip(faces, _prove_phase(bodies, index, [tasks[k] for k in faces], table, cell, "faces")):
+        outcomes[k] = outcome
+    return outcomes
+
+
+def _prove_phase(bodies, index, tasks, table, cell, phase):
+    """The caps (``phase`` "caps") or the face patches ("faces") of every task, in groups of
+    tasks that need about as many bodies modelled."""
+    bounds = [_bodies_bound(table, index, radius, phase == "caps") for radius, _, _ in tasks]
     needed = []
     for bound, (_, _, threshold) in zip(bounds, tasks):
         order = np.argsort(bound, kind="stable")
@@ -366,7 +380,7 @@ def prove_all_beyond(bodies, index: int, tasks, table: BodyTable | None = None) 
         kept = np.array([index] + sorted(kept - {index}), dtype=np.intp)
         left_out = np.ones(len(bodies), bool)
         left_out[kept] = False
-        work = [_Task(*tasks[k], float(np.sum(bounds[k][left_out]))) for k in group]
+        work = [_Task(*tasks[k], float(np.sum(bounds[k][left_out])), phase, cell) for k in group]
         for k, outcome in zip(group, _prove_tasks([bodies[i] for i in kept], table.subset(kept), cell, work)):
             outcomes[k] = outcome
     return outcomes

@@ -251,9 +251,8 @@ def keep_out_radii(bodies: list[MagnetBody], index: int, thresholds) -> np.ndarr
         radius = min(proven[position], start)
         if np.isnan(radius):  # magnets in the cell, or no proof at a close radius: walk cones
             radius = _refine(bodies, index, threshold, start, table, hits[position])
-        radius = _verify(bodies, index, threshold, max(radius, floor), table=table)
-        result[position] = previous = radius * (1 + 1e-9)  # rounding, outward
-    return result
+        result[position] = previous = max(radius, floor)
+    return _verify(bodies, index, thresholds, result, table=table) * (1 + 1e-9)  # rounding, outward
 
 
 def _in_own_cell(table, index, points):
@@ -552,25 +551,34 @@ def _refine(bodies, index, threshold, start, table, hit):
     return settled  # not reached
 
 
-def _verify(bodies, index, threshold, radius, directions=120, table=None):
-    """Belt and braces: sample just outside ``radius``; grow past any sample at threshold.
+def _verify(bodies, index, thresholds, radii, directions=120, table=None):
+    """Belt and braces: sample just outside each radius; grow it past any sample at its threshold.
 
     A guard against a fault in the proofs, not part of them: two shells of ``directions``
-    points each (the proofs cover every point of the cell beyond the radius).
+    points each (the proofs cover every point of the cell beyond the radius). The first
+    round of all thresholds shares one field evaluation. Returns the radii [m] (k,).
     """
     centre = bodies[index].center
     table = bounds.body_table(bodies, table)
     unit = fibonacci_directions(directions)
+    radii = np.array(radii, dtype=float)
+    pending = np.arange(len(radii))
     for _ in range(8):
-        shells = radius * np.array([1.0005, 1.02])
-        points = (centre + shells[:, None, None] * unit[None]).reshape(-1, 3)
-        points = points[_in_own_cell(table, index, points)]
-        value, error = field_with_error(bodies, points, WITNESS_ERROR * threshold, table)
-        reached = value + error >= threshold
+        shells = radii[pending, None] * np.array([1.0005, 1.02])
+        points = (centre + shells[:, :, None, None] * unit[None, None]).reshape(-1, 3)
+        owner = np.repeat(pending, 2 * directions)
+        keep = _in_own_cell(table, index, points)
+        points, owner = points[keep], owner[keep]
+        value, error = field_with_error(bodies, points, WITNESS_ERROR * thresholds[owner], table)
+        reached = value + error >= thresholds[owner]
         if not reached.any():
-            return radius
-        radius = 1.02 * float(np.max(np.linalg.norm(points[reached] - centre, axis=1)))
-    return radius
+            break
+        distance = np.linalg.norm(points - centre, axis=1)
+        grown = np.unique(owner[reached])
+        for k in grown:
+            radii[k] = 1.02 * float(np.max(distance[reached & (owner == k)]))
+        pending = grown
+    return radii
 
 
 def keep_out_radius(bodies: list[MagnetBody], index: int, threshold: float) -> float:

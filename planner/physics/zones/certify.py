@@ -230,18 +230,21 @@ def axis_parts(gradient, gradient_error, axes):
     return np.abs(along) + gradient_error, across + gradient_error
 
 
-def patch_below(model: LocalModel, axes, along_reach, across_reach, threshold):
+def patch_below(model: LocalModel, axes, along_reach, across_reach, threshold, derivatives=None):
     """Whether |B| < ``threshold`` [T] at every point y + d of the patches about the model's points.
 
     ``d`` has a part along the unit ``axes`` (n, 3) of at most ``along_reach`` (n,) [m] and a
     part across them of at most ``across_reach`` (n,) [m]: a spherical cap about its centre
     (the bulge and the half-width), or a flat patch about its centre (0 and its radius).
     Second-order bounds of the module docstring, with the derivative bounds taken over the
-    ball of radius hypot(along_reach, across_reach) about each point.
+    ball of radius hypot(along_reach, across_reach) about each point; ``derivatives``: those
+    bounds of orders 1 and 2 (each (n,)) if the caller has them.
     """
     size, gradient, gradient_error, slope = gradient_parts(model)
     along, across = axis_parts(gradient, gradient_error, axes)
-    first, second = derivative_bounds(model.geometry, np.hypot(along_reach, across_reach), (1, 2))
+    if derivatives is None:
+        derivatives = derivative_bounds(model.geometry, np.hypot(along_reach, across_reach), (1, 2))
+    first, second = derivatives
     return taylor_holds(size + model.error, along, across, slope, first, second, along_reach, across_reach,
                         threshold)
 

@@ -67,8 +67,7 @@ from typing import NamedTuple
 import numpy as np
 
 from planner.physics.zones.bounds import K, BodyTable, derivative_bounds, dipole_remainder
-from planner.physics.zones.certify import (LocalModel, _dipole_field_and_jacobian, axis_parts, gradient_parts,
-                                           local_model, patch_below, taylor_holds)
+from planner.physics.zones.certify import LocalModel, _dipole_field_and_jacobian, local_model, patch_below
 from planner.physics.zones.sampling import child_indices, icosahedron_cones
 
 __all__ = ["ShellOutcome", "source_free", "prove_beyond", "prove_all_beyond"]
@@ -402,7 +401,7 @@ def _prove_tasks(members, part, cell, work):
                                                     ("threshold", "proof_threshold", "left_out", "radius"))
         points, axes, chord, cap = batch["points"], batch["axes"], batch["chord"], batch["cap"]
         model = local_model(members, points, MODEL_SHARE * threshold, part)
-        size, gradient, gradient_error, slope = gradient_parts(model)
+        size = np.sqrt(np.sum(model.field**2, axis=1))
         inside = batch["excess"] <= 0
         witness = (size - model.error - left >= threshold) & inside
         # a centre in the cell that no smaller patch can prove (the proof needs the kept
@@ -419,12 +418,11 @@ def _prove_tasks(members, part, cell, work):
             holds[rows] = _dipole_cap_holds(_take(model, rows), own_jacobian, part.vectors[0], radius[rows],
                                             axes[rows], batch["half_angles"][rows], rest_second,
                                             proof_threshold[rows])
-        rows = np.flatnonzero(~holds)
+        rows = np.flatnonzero(~holds)  # faces, and caps beside the magnet: the general bound
         if len(rows):
-            along, across = axis_parts(gradient[rows], gradient_error[rows], axes[rows])
-            holds[rows] = taylor_holds(size[rows] + model.error[rows], along, across, slope[rows],
-                                       np.sum(first_each[rows], axis=1), np.sum(second_each[rows], axis=1),
-                                       batch["along"][rows], batch["across"][rows], proof_threshold[rows])
+            holds[rows] = patch_below(_take(model, rows), axes[rows], batch["along"][rows], batch["across"][rows],
+                                      proof_threshold[rows],
+                                      (np.sum(first_each[rows], axis=1), np.sum(second_each[rows], axis=1)))
         start = 0
         for (task, _), count in zip(open_, sizes):
             span = slice(start, start + count)

@@ -119,16 +119,16 @@ def test_caps_proven_with_the_own_dipole_hold_under_brute_force():
     axes, half_angles = cone_of_triangle(icosahedron_triangles(3))
     points = centre + radius * axes
     threshold = 1.05 * float(np.median(field_size(bodies, points)))
-    cell = shell._Cell(table, 0)
+    cell = shell.Cell(table, 0)
     inside = cell.excess(points) <= 0
     outcome_caps = []
     model = local_model(bodies, points[inside], 2e-3 * threshold, table)
     from planner.physics.zones.bounds import derivative_bounds
-    from planner.physics.zones.certify import _dipole_field_and_jacobian
+    from planner.physics.zones.certify import dipole_field_and_jacobian
     chord = 2 * radius * np.sin(half_angles[inside] / 2)
     _, second = derivative_bounds(model.geometry, chord, (1, 2), per_body=True)
     own = table.subset([0])
-    _, own_jacobian = _dipole_field_and_jacobian([bodies[0]], points[inside], np.ones((inside.sum(), 1), bool), own)
+    _, own_jacobian = dipole_field_and_jacobian([bodies[0]], points[inside], np.ones((inside.sum(), 1), bool), own)
     rest = second[:, 1] + dipole_remainder(own, (radius - chord)[:, None], 2)[:, 0]
     holds = shell._dipole_cap_holds(model, own_jacobian, table.vectors[0], radius, axes[inside],
                                     half_angles[inside], rest, threshold)

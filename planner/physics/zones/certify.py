@@ -91,7 +91,7 @@ def _split_far(geometry, widest, centre_bounds, ratio=10.0):
     return near, at_centre, at_widest, nearest_far
 
 
-def _dipole_field_and_jacobian(bodies, points, far, table=None, distance=None):
+def dipole_field_and_jacobian(bodies, points, far, table=None, distance=None):
     """Summed point-dipole field (n, 3) and Jacobian (n, 3, 3) [j, l] = dB_l/dx_j of the far pairs.
 
     dB_l/dx_j = 3 k / r^4 [(m.u)(delta_jl - 5 u_j u_l) + m_j u_l + m_l u_j] (derivative of
@@ -148,7 +148,7 @@ def local_model(bodies, points, allowed_error, table=None) -> LocalModel:
     distance = table.centre_distances(points)
     far, error, jacobian_error = dipole_assignment(bodies, points, allowed_error, table, distance)
     geometry = _ball_geometry(bodies, points, table, distance)
-    field, jacobian = _dipole_field_and_jacobian(bodies, points, far, table, distance)
+    field, jacobian = dipole_field_and_jacobian(bodies, points, far, table, distance)
     step = 1e-4 * np.maximum(np.min(np.maximum(geometry[1], geometry[0] - geometry[3]), axis=1), 1e-9)
     for i, body in enumerate(bodies):
         near = np.flatnonzero(~far[:, i])

@@ -284,7 +284,7 @@ def _face_search(bodies, index, points, outer, threshold, table, best, samples=1
     (geometric samples, then bisection past the outermost one at the threshold). Points of
     a face belong to the cell, so what is found there counts.
     """
-    cell = shell._Cell(table, index)
+    cell = shell.Cell(table, index)
     if not len(cell.gaps) or not len(points):
         return best
     offsets = points - cell.centre

@@ -67,7 +67,7 @@ from typing import NamedTuple
 import numpy as np
 
 from planner.physics.zones.bounds import K, BodyTable, derivative_bounds, dipole_remainder
-from planner.physics.zones.certify import LocalModel, _dipole_field_and_jacobian, local_model, patch_below
+from planner.physics.zones.certify import LocalModel, dipole_field_and_jacobian, local_model, patch_below
 from planner.physics.zones.sampling import child_indices, icosahedron_cones
 
 __all__ = ["ShellOutcome", "source_free", "prove_beyond", "prove_all_beyond"]
@@ -96,37 +96,26 @@ class ShellOutcome(NamedTuple):
     unproven: np.ndarray
 
 
-class _Cell:
-    """Magnet ``index``'s cell: the half-spaces (x - c) . n_i <= g_i / 2 of all other centres."""
+class Cell:
+    """Magnet ``index``'s cell: the half-spaces (x - c) . n_i <= g_i / 2 of all other centres.
+
+    ``centre`` c (3,) [m]; per other centre: ``gaps`` g_i [m], unit ``normals`` n_i towards
+    it, the ``feet`` c + (g_i / 2) n_i of c on the bisecting planes [m], and unit vectors
+    ``e1``, ``e2`` in those planes (e1, e2, n_i right-handed).
+    """
 
     def __init__(self, table: BodyTable, index: int):
         self.centre = table.centres[index]
         offsets = np.delete(table.centres, index, axis=0) - self.centre
         gaps = np.linalg.norm(offsets, axis=1)
         keep = gaps > 0  # a body at the same centre has no bisecting plane
-        self.others = np.delete(np.arange(len(table.centres)), index)[keep]
         self.gaps = gaps[keep]
         self.normals = offsets[keep] / self.gaps[:, None]
-
-    @property
-    def feet(self):
-        """Foot of the centre on each bisecting plane (k, 3) [m]."""
-        return self.centre + 0.5 * self.gaps[:, None] * self.normals
-
-    @property
-    def e1(self):
-        """A unit vector in each bisecting plane (k, 3)."""
-        if not hasattr(self, "_e1"):
-            helper = np.where(np.abs(self.normals[:, :1]) < 0.9, np.array([[1.0, 0.0, 0.0]]),
-                              np.array([[0.0, 1.0, 0.0]]))
-            e1 = np.cross(self.normals, helper)
-            self._e1 = e1 / np.linalg.norm(e1, axis=1)[:, None]
-        return self._e1
-
-    @property
-    def e2(self):
-        """The unit vector completing (e1, e2, normal) in each bisecting plane (k, 3)."""
-        return np.cross(self.normals, self.e1)
+        self.feet = self.centre + 0.5 * self.gaps[:, None] * self.normals
+        helper = np.where(np.abs(self.normals[:, :1]) < 0.9, np.array([[1.0, 0.0, 0.0]]), np.array([[0.0, 1.0, 0.0]]))
+        e1 = np.cross(self.normals, helper)
+        self.e1 = e1 / np.linalg.norm(e1, axis=1).reshape(-1, 1)
+        self.e2 = np.cross(self.normals, self.e1)
 
     def excess(self, points):
         """Largest (x - c) . n_i - g_i / 2 over the other centres (n,) [m]: > 0 outside the cell."""
@@ -351,7 +340,7 @@ def prove_all_beyond(bodies, index: int, tasks, table: BodyTable | None = None) 
     numpy calls.
     """
     table = BodyTable(bodies) if table is None else table
-    cell = _Cell(table, index)
+    cell = Cell(table, index)
     outcomes = _prove_phase(bodies, index, tasks, table, cell, "caps")
     faces = [k for k, outcome in enumerate(outcomes) if outcome.proven]
     for k, outcome in zip(faces, _prove_phase(bodies, index, [tasks[k] for k in faces], table, cell, "faces")):
@@ -411,7 +400,7 @@ def _prove_tasks(members, part, cell, work):
         holds = np.zeros(len(points), bool)
         if cap.any():
             rows = np.flatnonzero(cap)
-            _, own_jacobian = _dipole_field_and_jacobian([members[0]], points[rows], np.ones((len(rows), 1), bool),
+            _, own_jacobian = dipole_field_and_jacobian([members[0]], points[rows], np.ones((len(rows), 1), bool),
                                                          own)
             rest_second = (np.sum(second_each[rows, 1:], axis=1)
                            + dipole_remainder(own, (radius[rows] - chord[rows])[:, None], 2)[:, 0])

@@ -44,8 +44,8 @@ MAX_CONES = 24000
 # this error reaches the threshold, so it is sound at any size; 1 % keeps the witnesses within
 # 0.3 % of their distance while letting most distant magnets be taken as dipoles.
 WITNESS_ERROR = 1e-2
-PROOF_ATTEMPTS = 6
-LOOSER_STEP = 0.02
+PROOF_ATTEMPTS = 6  # radii tried by the shell proof before the cone walk takes over
+LOOSER_STEP = 0.02  # how much farther out to try when a proof stalls with no farther point found
 
 
 def farthest_start_radius(bodies: list[MagnetBody], index: int, threshold: float, table=None) -> float:
@@ -293,7 +293,7 @@ def _face_search(bodies, index, points, outer, threshold, table, best, samples=1
     near = excess[np.arange(len(points)), row] >= -0.02 * np.linalg.norm(offsets, axis=1)
     row, offsets = row[near], offsets[near]
     normals, half = cell.normals[row], 0.5 * cell.gaps[row]
-    along = offsets - (np.sum(offsets * normals, axis=1) - half)[:, None] * normals - half[:, None] * normals
+    along = offsets - np.sum(offsets * normals, axis=1)[:, None] * normals  # from the foot, in the plane
     start = np.linalg.norm(along, axis=1)
     fits = (start > 0) & (half < outer)
     if not fits.any():

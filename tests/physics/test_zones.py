@@ -17,6 +17,7 @@ from planner.physics.fields import field_of_bodies
 from planner.physics.zones import field_contours, keep_out_radius, zone_reach
 from planner.physics.zones.keep_out import keep_out_radii
 from tests.physics.polygons import inside, polygon_area
+from tests.physics.brute_force import farthest_found, largest_field_beyond
 from tests.physics.references import sphere
 
 RNG = np.random.default_rng(20261201)
@@ -30,61 +31,6 @@ def on_axis_radius(moment, threshold):
 def equatorial_radius(moment, threshold):
     """Dipole on its equator: B = mu0 m / (4 pi r^3) -> r = (mu0 m / (4 pi B))^(1/3) (eq. 5.56)."""
     return (mu_0 * moment / (4 * np.pi * threshold)) ** (1 / 3)
-
-
-def in_own_cell(bodies, index, points):
-    own = np.linalg.norm(points - bodies[index].center, axis=1)
-    others = [b.center for i, b in enumerate(bodies) if i != index]
-    if not others:
-        return np.ones(len(points), bool)
-    nearest = np.min(np.linalg.norm(points[:, None] - np.array(others)[None], axis=2), axis=1)
-    return own <= nearest
-
-
-def largest_field_beyond(bodies, index, radius, count=60000):
-    """Brute force: largest exact |B| at random points between radius and 1.4 radius."""
-    unit = RNG.normal(size=(count, 3))
-    unit /= np.linalg.norm(unit, axis=1)[:, None]
-    distance = radius * (1 + 0.4 * RNG.random(count) ** 2)
-    points = bodies[index].center + distance[:, None] * unit
-    points = points[in_own_cell(bodies, index, points)]
-    return float(np.nanmax(np.linalg.norm(field_of_bodies(bodies, points), axis=1)))
-
-
-def farthest_found(bodies, index, threshold, start, directions=6000):
-    """Brute force lower bound of the exact distance: shells from ``start`` inward, then a
-    local search around the best direction (random turns, bisection along each ray)."""
-    unit = RNG.normal(size=(directions, 3))
-    unit /= np.linalg.norm(unit, axis=1)[:, None]
-    floor = bodies[index].bounding_radius
-    centre = bodies[index].center
-
-    def reached(points):
-        keep = in_own_cell(bodies, index, points)
-        values = np.zeros(len(points))
-        values[keep] = np.linalg.norm(field_of_bodies(bodies, points[keep]), axis=1)
-        return np.nan_to_num(values) >= threshold
-
-    shells = np.geomspace(start, max(floor, 1e-4), 240)
-    for outer, radius in zip(np.concatenate([[start], shells[:-1]]), shells):
-        hits = reached(centre + radius * unit)
-        if hits.any():
-            break
-    else:
-        return floor
-    best = unit[hits][0]
-    for spread in (0.2, 0.05, 0.01):
-        trial = best + spread * RNG.normal(size=(400, 3))
-        trial = np.vstack([best, trial / np.linalg.norm(trial, axis=1)[:, None]])
-        low, high = np.full(len(trial), 0.0), np.full(len(trial), outer)
-        low[reached(centre + radius * trial)] = radius
-        for _ in range(25):
-            middle = np.where(low > 0, 0.5 * (low + high), radius)
-            ok = reached(centre + middle[:, None] * trial) & (low > 0)
-            low = np.where(ok, middle, low)
-            high = np.where(ok | (low == 0), high, middle)
-        radius, best = max(radius, float(low.max())), trial[np.argmax(low)]
-    return radius
 
 
 # --- keep-out distance -------------------------------------------------------------------
@@ -113,7 +59,7 @@ def test_several_thresholds_at_once_match_one_by_one_and_shrink():
     assert together[0] < together[2] < together[1]
     for threshold, value in zip(thresholds, together):
         alone = keep_out_radius([disc], 0, threshold)
-        exact_low = farthest_found([disc], 0, threshold, 1.1 * max(alone, value))
+        exact_low = farthest_found([disc], 0, threshold, 1.1 * max(alone, value), RNG)
         assert min(alone, value) >= exact_low  # both never short (brute force)
 
 
@@ -146,9 +92,9 @@ def magnets(draw):
 def test_keep_out_is_never_short_and_within_the_margin(body, threshold):
     found = keep_out_radius([body], 0, threshold)
     # Conservative: brute-force sampling of the exact field finds nothing at the threshold beyond.
-    assert largest_field_beyond([body], 0, found) < threshold
+    assert largest_field_beyond([body], 0, found, RNG) < threshold
     # Margin: at most 5 % or 5 mm above a point that brute force finds at the threshold.
-    exact_low = farthest_found([body], 0, threshold, found)
+    exact_low = farthest_found([body], 0, threshold, found, RNG)
     assert found <= max(1.05 * exact_low, exact_low + 5e-3)
 
 
@@ -159,7 +105,7 @@ def test_two_magnets_total_field_never_short_in_either_cell():
     for index in range(2):
         found = keep_out_radius(bodies, index, 1e-3)
         # Every point of this magnet's cell beyond the distance is below 1 mT (brute force).
-        assert largest_field_beyond(bodies, index, found) < 1e-3
+        assert largest_field_beyond(bodies, index, found, RNG) < 1e-3
 
 
 @pytest.mark.parametrize("diameter, height, remanence", [

@@ -21,7 +21,7 @@ import math
 from dataclasses import dataclass, field
 
 from planner.assessment import Threshold
-from planner.units import MICRO_ASCII, format_flux_density, format_number, format_quantity
+from planner.units import LENGTH_PREFIXES, MICRO_ASCII, format_flux_density, format_number, format_quantity
 
 __all__ = ["Finding", "SEVERITIES", "BLOCKING", "ACTION", "NOTE", "severity_rank", "DEFERRAL",
            "deferral_line", "show", "show_field", "threshold_text", "source_entry", "threshold_map",
@@ -108,7 +108,7 @@ def is_number(value) -> bool:
 # kind -> (unit written after the number, the SI value of one of it, prefixes allowed).
 # The prefixes of mass go on the gram (kg, g).
 _UNITS = {
-    "length": ("m", 1.0, ("", "m")),
+    "length": ("m", 1.0, LENGTH_PREFIXES),
     "force": ("N", 1.0, ("k", "", "m")),
     "energy": ("J", 1.0, ("", "m", "u")),
     "voltage": ("V", 1.0, ("k", "", "m", "u")),

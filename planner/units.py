@@ -39,7 +39,8 @@ from planner.physics.constants import mu_0  # the hazard rules convert A/m to T 
 
 
 __all__ = ["mu_0", "UnitError", "KINDS", "to_si", "is_quantity_text", "vector_to_si", "MICRO_ASCII", "MICRO_SIGN",
-           "SI_PREFIXES", "format_number", "format_quantity", "format_flux_density"]
+           "SI_PREFIXES", "FIELD_PREFIXES", "FIELD_LOWER_BOUNDS", "LENGTH_PREFIXES", "format_number",
+           "format_quantity", "format_flux_density"]
 
 
 class UnitError(ValueError):
@@ -252,6 +253,12 @@ SI_PREFIXES = {"Y": 24, "Z": 21, "E": 18, "P": 15, "T": 12, "G": 9, "M": 6, "k":
 _MICRO_SPELLINGS = ("u", MICRO_SIGN, "\u03bc")
 #: The prefixes :func:`format_quantity` chooses from unless told otherwise.
 DISPLAY_PREFIXES = ("G", "M", "k", "", "m", "u", "n", "p")
+#: Flux densities for people, in the terminal and the PDF alike: T, mT from 0.1 mT (the unit the
+#: thresholds of the trade are written in), uT from 0.1 uT, nT below.
+FIELD_PREFIXES = ("", "m", "u", "n")
+FIELD_LOWER_BOUNDS = {"m": 1e-4, "u": 1e-7}
+#: Lengths for people: m, mm, um.
+LENGTH_PREFIXES = ("", "m", "u")
 
 
 def _round_significant(value: float, digits: int) -> float:
@@ -377,7 +384,7 @@ def format_quantity(value: float, unit: str, *, micro: str = MICRO_ASCII, digits
 
 
 def format_flux_density(tesla: float, digits: int = 3) -> str:
-    """A flux density for people, in T, mT or uT, as the terminal and ``benchplan field`` show it.
+    """A flux density for people, in T, mT, uT or nT, as the terminal and ``benchplan field`` show it.
 
     Parameters
     ----------
@@ -389,9 +396,9 @@ def format_flux_density(tesla: float, digits: int = 3) -> str:
     Returns
     -------
     str
-        :func:`format_quantity` with micro written ``u`` and mT from 0.1 mT up (the unit the
-        thresholds of the trade are written in), zero as ``0 mT``; ``not available`` for None,
-        NaN or infinity.
+        :func:`format_quantity` with micro written ``u`` and the prefixes of
+        :data:`FIELD_PREFIXES` (the PDF uses the same), zero as ``0 mT``; ``not available``
+        for None, NaN or infinity.
 
     Examples
     --------
@@ -402,4 +409,4 @@ def format_flux_density(tesla: float, digits: int = 3) -> str:
         return "not available"
     if tesla == 0:
         return "0 mT"
-    return format_quantity(tesla, "T", digits=digits, prefixes=("", "m", "u"), lower_bounds={"m": 1e-4})
+    return format_quantity(tesla, "T", digits=digits, prefixes=FIELD_PREFIXES, lower_bounds=FIELD_LOWER_BOUNDS)

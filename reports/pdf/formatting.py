@@ -14,7 +14,8 @@ from __future__ import annotations
 import math
 from typing import Any
 
-from planner.units import MICRO_SIGN, format_number, format_quantity
+from planner.units import (FIELD_LOWER_BOUNDS, FIELD_PREFIXES, LENGTH_PREFIXES, MICRO_SIGN, format_number,
+                           format_quantity)
 
 SIGNIFICANT = 3
 
@@ -22,13 +23,14 @@ SIGNIFICANT = 3
 # Masses in kg from 1 kg up, in g below (prefixes of mass go on the gram). Any other unit is
 # written as it is.
 _PREFIXES = {
-    "m": ("", "m", "u"),
-    "T": ("", "m", "u", "n"),
+    "m": LENGTH_PREFIXES,
+    "T": FIELD_PREFIXES,
     "g": ("k", ""),
     "kg": ("k", ""),
 }
-# The field switches to the next smaller prefix at a tenth of the usual place: 0.1 mT, 0.1 µT.
-_LOWER_BOUNDS = {"T": {"m": 1e-4, "u": 1e-7}}
+# The field switches to the next smaller prefix at a tenth of the usual place: 0.1 mT, 0.1 µT
+# (as in the terminal: planner.units).
+_LOWER_BOUNDS = {"T": FIELD_LOWER_BOUNDS}
 _GENERAL_PREFIXES = ("M", "k", "", "m", "u", "n")
 _GENERAL_UNITS = {"V", "A", "W", "J", "N", "s", "H", "Wb", "Ω", "Hz", "Pa", "F", "C"}
 

@@ -37,6 +37,15 @@ def test_quantity_writes_si_prefixes_with_the_micro_sign(value, unit, text):
     assert quantity(value, unit) == text
 
 
+@pytest.mark.parametrize("value", [5e-8, 3.2e-7, 2e-5, 4.5e-4, 0.0125, 0.4, 1.32])
+def test_terminal_and_pdf_write_fields_and_lengths_alike(value):
+    # identity: one choice of prefixes for both (planner.units), only micro is spelt u or µ
+    from hazards.findings import show
+
+    assert show(value, "field").replace("u", "µ") == quantity(value, "T")
+    assert show(value, "length").replace("u", "µ") == quantity(value, "m")
+
+
 def test_quantity_words_for_missing_and_unbounded_values():
     assert quantity(None, "m") == "-"
     assert quantity(math.inf, "m") == "no limit"

@@ -184,8 +184,8 @@ def test_an_internal_error_in_grades_is_caught_too(run, monkeypatch):
     assert result.exit_code == 3 and "ZeroDivisionError" in result.stderr and "Traceback" not in result.output
 
 
-def test_a_setup_with_many_magnets_is_announced_before_the_long_work():
-    # 20 magnets and up: keep-out distances take tens of seconds (benchmarks/zones.py), so the
+def test_a_setup_with_many_magnets_is_announced_before_the_long_work(run, tmp_path):
+    # 20 magnets and up: keep-out distances take seconds (benchmarks/zones.py), so the
     # assess and report commands say so on stderr first; the examples (at most 12) stay quiet
     from planner.cli import MANY_MAGNETS, long_work_notice
     from planner.setup import load_setup
@@ -198,3 +198,8 @@ def test_a_setup_with_many_magnets_is_announced_before_the_long_work():
     assert notice is not None and f"{MANY_MAGNETS} magnets" in notice
     assert long_work_notice(setup_from(magnets=discs(MANY_MAGNETS - 1))) is None
     assert all(long_work_notice(load_setup(path)) is None for path in example_setup_paths())
+    # and assess prints it, on stderr, before its figures
+    path = tmp_path / "many.yaml"
+    path.write_text("title: many discs\nmagnets:\n" + discs(MANY_MAGNETS))
+    result = run("assess", str(path))
+    assert result.exit_code in (0, 1) and notice in result.stderr and notice not in result.stdout

@@ -44,7 +44,7 @@ def zone_reach(zone_id, threshold_id, max_field, people=True, kind="seating", co
 def pair(**changes) -> PairFigures:
     values = dict(activity_id="join", magnet_id="disc", other_id="disc2", other_kind="magnet", approach="hand",
                   force_at_contact_N=20.0, force_at_finger_gap_N=5.0, finger_gap_m=0.01,
-                  pressure_at_finger_gap_Pa=5.0 / 7.85e-5,
+                  pressure_at_finger_gap_Pa=5.0 / magnet().pole_area_m2,  # the gap force over the pole area
                   snap_distance_bench_m=0.03, snap_distance_hand_m=0.01, pinch_energy_J=0.05,
                   impact_speed_m_per_s=2.0, flip_torque_N_m=None, both_brittle=True, upper_bound=False)
     values.update(changes)

@@ -11,7 +11,6 @@ from __future__ import annotations
 import itertools
 import re
 
-import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
@@ -107,13 +106,6 @@ def _covered(text: str, part: str) -> bool:
     return False
 
 
-@pytest.fixture(scope="module")
-def teaching_lab():
-    from tests.conftest import assessed_example
-
-    return assessed_example("teaching-lab-stations")
-
-
 def test_teaching_lab_terminal_prints_the_identical_induction_block_once(teaching_lab):
     from reports.terminal import _value_text, render_terminal
 
@@ -161,16 +153,13 @@ def test_teaching_lab_json_keeps_every_row(teaching_lab):
 
 
 def test_teaching_lab_pdf_still_names_every_magnet(teaching_lab):
-    from pypdf import PdfReader
-    import io
-
     from reports.fingerprint import fingerprint
     from reports.pdf import inputs_from_setup, render_pdf
+    from tests.reports.test_pdf import pdf_text
 
     setup, assessment = teaching_lab
     data = render_pdf(inputs_from_setup(setup, assessment, fingerprint(setup), created_epoch=0))
-    pages = [page.extract_text() for page in PdfReader(io.BytesIO(data)).pages]
-    text = " ".join(" ".join(pages).split())
+    text = " ".join(" ".join(pdf_text(data)).split())
     figures = text.split("Figures", 1)[1]
     for magnet in setup.magnets:
         assert magnet.id in text

@@ -9,9 +9,8 @@ from __future__ import annotations
 
 import math
 
-import pytest
 
-from planner.assessment import Threshold, ZoneReach
+from planner.assessment import ZoneReach
 from reports.pdf import render_pdf
 from reports.zone_summary import checked_in_every_zone, zone_summaries
 from reports.terminal import render_terminal
@@ -108,12 +107,6 @@ def test_a_zone_whose_field_is_not_known_counts_as_reached_as_in_the_rules():
     assert zone_max_field(a, "shelf") == shelf.largest_field_T == math.inf
     lines = " ".join(line.strip() for line in render_terminal(None, a).splitlines())
     assert "aisle (walkway, people): not known; reaches implant_keep_out 0.5 mT, magnetic_cards 1 mT" in lines
-
-
-@pytest.fixture(scope="module")
-def teaching_lab():
-    from tests.conftest import assessed_example
-    return assessed_example("teaching-lab-stations")
 
 
 def test_teaching_lab_zone_table_has_one_row_per_zone(teaching_lab):

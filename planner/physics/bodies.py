@@ -131,6 +131,22 @@ def rotation_from_axis(axis) -> np.ndarray:
     return np.column_stack([x, y, z])
 
 
+def plane_basis(normal):
+    """Two unit vectors (each (..., 3)) spanning the plane perpendicular to each unit ``normal``
+    (..., 3): the first is perpendicular to global x as well (to global y where the normal is
+    within 26 degrees of x), the second is normal x first, so (first, second, normal) is
+    right-handed.
+
+    >>> first, second = plane_basis(np.array([0.0, 0.0, 1.0])); first.tolist(), second.tolist()
+    ([0.0, 1.0, 0.0], [-1.0, 0.0, 0.0])
+    """
+    normal = np.asarray(normal, dtype=float)
+    helper = np.where(np.abs(normal[..., :1]) < 0.9, [1.0, 0.0, 0.0], [0.0, 1.0, 0.0])
+    first = np.cross(normal, helper)
+    first = first / np.linalg.norm(first, axis=-1, keepdims=True)
+    return first, np.cross(normal, first)
+
+
 def rotation_about(axis, angle: float) -> np.ndarray:
     """Rotation matrix of a right-handed turn by ``angle`` [rad] about ``axis`` (Rodrigues' formula).
 

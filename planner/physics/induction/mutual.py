@@ -16,6 +16,7 @@ from __future__ import annotations
 
 import numpy as np
 
+from planner.physics.bodies import plane_basis
 from planner.physics.gauss import gauss_legendre
 
 from .coils import Winding, winding_inductance
@@ -30,17 +31,10 @@ def _unit(vector):
     return vector / np.linalg.norm(vector, axis=-1, keepdims=True)
 
 
-def _plane_basis(normal):
-    """Two unit vectors spanning the plane perpendicular to each normal (..., 3)."""
-    helper = np.where(np.abs(normal[..., :1]) < 0.9, [1.0, 0.0, 0.0], [0.0, 1.0, 0.0])
-    first = _unit(np.cross(normal, helper))
-    return first, np.cross(normal, first)
-
-
 def _loop_pairs(radius_1, center_1, normal_1, radius_2, center_2, normal_2, nodes):
     """Mutual inductances of many loop pairs, all arrays broadcast to (P,) / (P, 3) [H]."""
     n1, n2 = _unit(normal_1), _unit(normal_2)
-    first, second = _plane_basis(n2)
+    first, second = plane_basis(n2)
     phi = 2.0 * np.pi * np.arange(nodes) / nodes
     cos, sin = np.cos(phi)[None, :, None], np.sin(phi)[None, :, None]
     r2 = np.asarray(radius_2, dtype=float)[..., None, None]

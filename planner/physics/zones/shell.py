@@ -66,6 +66,7 @@ from typing import NamedTuple
 
 import numpy as np
 
+from planner.physics.bodies import plane_basis
 from planner.physics.zones.bounds import K, BodyTable, derivative_bounds, dipole_remainder
 from planner.physics.zones.certify import LocalModel, dipole_field_and_jacobian, local_model, patch_below
 from planner.physics.zones.sampling import child_indices, icosahedron_cones
@@ -112,10 +113,7 @@ class Cell:
         self.gaps = gaps[keep]
         self.normals = offsets[keep] / self.gaps[:, None]
         self.feet = self.centre + 0.5 * self.gaps[:, None] * self.normals
-        helper = np.where(np.abs(self.normals[:, :1]) < 0.9, np.array([[1.0, 0.0, 0.0]]), np.array([[0.0, 1.0, 0.0]]))
-        e1 = np.cross(self.normals, helper)
-        self.e1 = e1 / np.linalg.norm(e1, axis=1).reshape(-1, 1)
-        self.e2 = np.cross(self.normals, self.e1)
+        self.e1, self.e2 = plane_basis(self.normals)
 
     def excess(self, points):
         """Largest (x - c) . n_i - g_i / 2 over the other centres (n,) [m]: > 0 outside the cell."""
@@ -161,12 +159,8 @@ def _dipole_cap_holds(model: LocalModel, own_jacobian, moment, radius, axes, hal
     a_n = np.einsum("nij,nj->ni", a, n)
     at_p = np.einsum("nji,nj->ni", a, p0)
     at_p_across = at_p - np.sum(at_p * n, axis=1)[:, None] * n
-    # an orthonormal pair across n, and the norm of A on that plane (largest eigenvalue of
-    # the 2 x 2 Gram matrix)
-    helper = np.where(np.abs(n[:, :1]) < 0.9, np.array([[1.0, 0.0, 0.0]]), np.array([[0.0, 1.0, 0.0]]))
-    e1 = np.cross(n, helper)
-    e1 /= np.linalg.norm(e1, axis=1)[:, None]
-    e2 = np.cross(n, e1)
+    # the norm of A on the plane across n: the largest eigenvalue of the 2 x 2 Gram matrix
+    e1, e2 = plane_basis(n)
     a1, a2 = np.einsum("nij,nj->ni", a, e1), np.einsum("nij,nj->ni", a, e2)
     g11, g22, g12 = np.sum(a1 * a1, axis=1), np.sum(a2 * a2, axis=1), np.sum(a1 * a2, axis=1)
     across_norm = np.sqrt(0.5 * (g11 + g22) + np.sqrt(0.25 * (g11 - g22)**2 + g12**2))

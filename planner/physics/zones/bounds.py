@@ -259,6 +259,23 @@ def dipole_remainder(table, distance, order):
     return np.where(np.isnan(bound), np.inf, bound)
 
 
+def cell_field_bounds(table, index, radius, on_sphere=False):
+    """Bound [T] on each body's field in the cell of body ``index`` beyond ``radius`` (..., b).
+
+    Every point of the cell at least ``radius`` [m] (scalar or (...,)) from its centre c is at
+    least that far from every other centre too (none is nearer), and at least half the gap
+    from each; with ``on_sphere``, for points at exactly that radius, also at least
+    |gap - radius| from each (triangle inequality). At the smallest such distance e each
+    body's field is at most its dipole's largest, 2 k m / e^3 (Jackson eq. 5.56), plus the
+    dipole remainder (:func:`dipole_remainder`), both falling with distance. The body
+    ``index`` itself is included (at e = radius).
+    """
+    gaps = np.linalg.norm(table.centres - table.centres[index], axis=1)
+    radius = np.asarray(radius, dtype=float)[..., None]
+    distance = np.maximum(radius, np.abs(gaps - radius) if on_sphere else 0.5 * gaps)
+    return 2 * K * table.moments / distance**3 + dipole_remainder(table, distance, 0)
+
+
 def model_field(bodies, points, far, table=None):
     """B (n, 3) [T]: point dipoles for the (point, body) pairs in ``far``, exact otherwise."""
     total = np.zeros_like(points)

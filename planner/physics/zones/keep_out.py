@@ -73,7 +73,7 @@ def farthest_start_radius(bodies: list[MagnetBody], index: int, threshold: float
     In that cell every other centre is at least as far as c, d_i >= r, and d_i >= g_i - r
     with g_i the distance between the centres; for all radii r >= R both give
     d_i >= max(R, g_i / 2) = e_i. With the dipole value and the error bound of the dipole
-    stand-in of each body (:func:`~planner.physics.zones.bounds.dipole_remainders`, which
+    stand-in of each body (:func:`~planner.physics.zones.bounds.cell_field_bounds`, which
     falls with distance), |B| <= sum_i [2 k m_i / e_i^3 + remainder_i(e_i)], k = mu0/4pi,
     finite for e_i > a_i. The right side falls with R; :func:`farthest_start_radii` takes
     the first node beyond where it meets the threshold on a fine geometric grid.
@@ -109,12 +109,11 @@ def farthest_start_radii(bodies: list[MagnetBody], index: int, thresholds, table
     """
     thresholds = np.atleast_1d(np.asarray(thresholds, dtype=float))
     table = bounds.body_table(bodies, table)
-    moments, reach = table.moments, table.reach
+    reach = table.reach
     half_gap = np.linalg.norm(table.centres - table.centres[index], axis=1) / 2
 
     def bound(r):  # r (...,) -> (...,)
-        distance = np.maximum(np.asarray(r)[..., None], half_gap)
-        return np.sum(2 * bounds.K * moments / distance**3 + bounds.dipole_remainders(table, distance)[0], axis=-1)
+        return np.sum(bounds.cell_field_bounds(table, index, r), axis=-1)
 
     # just outside every bounding sphere that reaches into the cell (the remainders are
     # finite only beyond 1 + 1e-9 of the bounding radius)

@@ -20,7 +20,7 @@ So the keep-out question at one radius is two 2-D proofs, instead of walking 3-D
 least R from c, and no other centre is nearer) and at least half the gap from each other
 centre; a point of the sphere is also at least |gap - R| from each (triangle inequality).
 Bodies whose summed dipole bound there, 2 k m / e^3 plus the dipole remainder with e the
-smallest such distance (:func:`~planner.physics.zones.bounds.dipole_remainders`), fits in
+smallest such distance (:func:`~planner.physics.zones.bounds.cell_field_bounds`), fits in
 ``IGNORED_SHARE`` of the threshold are left out of the per-patch work, and the patches are
 proven against the threshold less that sum. The caps and the face patches are proven in
 turn, each with its own set of bodies: on the sphere far fewer are needed.
@@ -67,7 +67,7 @@ from typing import NamedTuple
 import numpy as np
 
 from planner.physics.bodies import plane_basis
-from planner.physics.zones.bounds import K, BodyTable, derivative_bounds, dipole_remainder
+from planner.physics.zones.bounds import K, BodyTable, cell_field_bounds, derivative_bounds, dipole_remainder
 from planner.physics.zones.certify import LocalModel, dipole_field_and_jacobian, local_model, patch_below
 from planner.physics.zones.sampling import child_indices, icosahedron_cones
 
@@ -279,21 +279,6 @@ def _face_cells(cell, radius, outer):
     return tuple(np.concatenate(parts) for parts in (rows, inner_s, outer_s, first, last))
 
 
-def _bodies_bound(table, index, radius, on_sphere):
-    """Bound [T] on each body's field (b,) on the cell's sphere of ``radius`` (``on_sphere``)
-    or anywhere in the cell beyond it; inf for ``index`` itself.
-
-    Every point of the cell beyond the radius is at least that far from every centre and at
-    least half the gap from each other centre; a point of the sphere is also at least
-    |gap - radius| from each (triangle inequality), far more for distant bodies.
-    """
-    gaps = np.linalg.norm(table.centres - table.centres[index], axis=1)
-    distance = np.maximum(radius, np.abs(gaps - radius) if on_sphere else 0.5 * gaps)
-    bound = 2 * K * table.moments / distance**3 + dipole_remainder(table, distance, 0)
-    bound[index] = np.inf
-    return bound
-
-
 def prove_beyond(bodies, index: int, radius: float, outer: float, threshold: float,
                  table: BodyTable | None = None) -> ShellOutcome:
     """Prove |B| < ``threshold`` in the whole cell of body ``index`` between ``radius`` and ``outer``.
@@ -345,7 +330,9 @@ def prove_all_beyond(bodies, index: int, tasks, table: BodyTable | None = None) 
 def _prove_phase(bodies, index, tasks, table, cell, phase):
     """The caps (``phase`` "caps") or the face patches ("faces") of every task, in groups of
     tasks that need about as many bodies modelled."""
-    bounds = [_bodies_bound(table, index, radius, phase == "caps") for radius, _, _ in tasks]
+    bounds = [cell_field_bounds(table, index, radius, on_sphere=phase == "caps") for radius, _, _ in tasks]
+    for bound in bounds:
+        bound[index] = np.inf  # the magnet itself is always modelled
     needed = []
     for bound, (_, _, threshold) in zip(bounds, tasks):
         order = np.argsort(bound, kind="stable")

@@ -273,7 +273,7 @@ def _lower_values(bodies, index, axes, distance, allowed_error, table):
     return _lower_at(bodies, index, points, allowed_error, table).reshape(distance.shape)
 
 
-def _face_search(bodies, index, points, outer, threshold, table, best, samples=10, halvings=6):
+def _face_search(bodies, index, points, outer, threshold, table, best, samples=10):
     """Farthest distance [m] from the centre found at the threshold on the cell faces near ``points``.
 
     The region at the threshold can hug a face of the cell (a stronger neighbour's field
@@ -302,24 +302,14 @@ def _face_search(bodies, index, points, outer, threshold, table, best, samples=1
     end = np.sqrt(np.maximum(outer**2 - half**2, start**2))
     steps = start[:, None] * (end / start)[:, None] ** np.linspace(0.0, 1.0, samples)
 
-    def lower(s):  # s (m, k) distances along the face -> lower values (m, k)
-        on_face = feet[:, None, :] + s[..., None] * along[:, None, :]
+    def reached(rows, s):  # points at distances s (...) along the face paths rows (...)
+        on_face = feet[rows] + s[..., None] * along[rows]
         values = _lower_at(bodies, index, on_face.reshape(-1, 3), WITNESS_ERROR * threshold, table)
-        return values.reshape(s.shape)
+        return values.reshape(s.shape) >= threshold
 
-    reached = lower(steps) >= threshold
-    rows = np.flatnonzero(reached.any(axis=1))
-    if not len(rows):
-        return best
-    outermost = samples - 1 - np.argmax(reached[rows, ::-1], axis=1)
-    inner = steps[rows, outermost]
-    outer_s = steps[rows, np.minimum(outermost + 1, samples - 1)]
-    feet, along, half = feet[rows], along[rows], half[rows]
-    for _ in range(halvings):
-        middle = 0.5 * (inner + outer_s)
-        ok = lower(middle[:, None])[:, 0] >= threshold
-        inner, outer_s = np.where(ok, middle, inner), np.where(ok, outer_s, middle)
-    return max(best, float(np.max(np.hypot(half, inner))))
+    paths = np.arange(len(steps))
+    return float(_farthest_on_paths(reached(paths[:, None], steps), steps, np.zeros(len(steps), np.intp),
+                                    np.array([best]), reached, lambda rows, s: np.hypot(half[rows], s))[0])
 
 
 def _lower_at(bodies, index, points, allowed_error, table):
@@ -348,24 +338,6 @@ def _surely_reached(bodies, index, axes, distance, threshold, table):
     return _lower_values(bodies, index, axes, distance, WITNESS_ERROR * threshold, table) >= threshold
 
 
-def _bisect_outermost(bodies, index, axes, inner, outer, threshold, best, table, halvings=6):
-    """Farthest radius [m] found at the threshold between ``inner`` (reached) and ``outer``.
-
-    Only rays whose bracket can beat the best so far are bisected: the answer is a maximum.
-    """
-    for _ in range(halvings):
-        promising = outer > best
-        if not promising.any():
-            break
-        axes, inner, outer = axes[promising], inner[promising], outer[promising]
-        middle = 0.5 * (inner + outer)
-        ok = _surely_reached(bodies, index, axes, middle[:, None], threshold, table)[:, 0]
-        inner = np.where(ok, middle, inner)
-        outer = np.where(ok, outer, middle)
-        best = max(best, float(np.max(inner)))
-    return best
-
-
 def _probe(bodies, index, axes, radii, threshold, samples=10, table=None, inner=0.0):
     """Farthest radius found on the given axes, inside ``radii``, where |B| surely >= threshold.
 
@@ -381,23 +353,46 @@ def _probe(bodies, index, axes, radii, threshold, samples=10, table=None, inner=
         return inner
     axes, radii = axes[outward], radii[outward]
     distance = _geometric_radii(floor, radii, samples)
-    reached = _surely_reached(bodies, index, axes, distance, threshold, table)
-    return _outermost_from_samples(bodies, index, axes, distance, reached, threshold, inner, table)
+
+    def reached(rows, s):
+        return _surely_reached(bodies, index, axes[rows], s[:, None], threshold, table)[:, 0]
+
+    found = _farthest_on_paths(_surely_reached(bodies, index, axes, distance, threshold, table), distance,
+                               np.zeros(len(axes), np.intp), np.array([float(inner)]), reached,
+                               lambda rows, s: s)
+    return float(found[0])
 
 
-def _outermost_from_samples(bodies, index, axes, distance, reached, threshold, best, table):
-    """Bisect past the outermost reached sample of each ray (distance, reached: (n, k))."""
-    any_reached = reached.any(axis=1)
-    if not any_reached.any():
+def _farthest_on_paths(reached, steps, group, best, check, distance, halvings=6):
+    """Farthest distance [m] found at the threshold on sampled paths, refined by bisection.
+
+    ``reached`` (n, k): whether sample j of path i is surely at its threshold; ``steps``
+    (n, k): the samples' positions along the paths (increasing); ``group`` (n,): the entry
+    of ``best`` (g,) [m] each path counts for (a threshold). ``check(rows, s)``: whether the
+    points at positions ``s`` of paths ``rows`` are surely at the threshold;
+    ``distance(rows, s)``: their distances from the centre, growing with s. Each path with a
+    reached sample is bisected between its outermost one and the next sample out, while it
+    can still beat its group's best. Returns ``best``, raised to what was found.
+    """
+    rows = np.flatnonzero(reached.any(axis=1))
+    if not len(rows):
         return best
-    samples = distance.shape[1]
-    outermost = samples - 1 - np.argmax(reached[:, ::-1], axis=1)
-    rows = np.flatnonzero(any_reached)
-    inner = distance[rows, outermost[rows]]
-    outer = np.where(outermost[rows] + 1 < samples,
-                     distance[rows, np.minimum(outermost[rows] + 1, samples - 1)], inner)
-    best = max(best, float(np.max(inner)))
-    return _bisect_outermost(bodies, index, axes[rows], inner, outer, threshold, best, table)
+    samples = steps.shape[1]
+    outermost = samples - 1 - np.argmax(reached[rows, ::-1], axis=1)
+    inner = steps[rows, outermost]
+    outer = steps[rows, np.minimum(outermost + 1, samples - 1)]
+    np.maximum.at(best, group[rows], distance(rows, inner))
+    for _ in range(halvings):
+        promising = distance(rows, outer) > best[group[rows]]
+        if not promising.any():
+            break
+        rows, inner, outer = rows[promising], inner[promising], outer[promising]
+        middle = 0.5 * (inner + outer)
+        ok = check(rows, middle)
+        inner = np.where(ok, middle, inner)
+        outer = np.where(ok, outer, middle)
+        np.maximum.at(best, group[rows], distance(rows, inner))
+    return best
 
 
 class _RaySamples:
@@ -423,36 +418,18 @@ class _RaySamples:
         thresholds share their field evaluations (with the error allowance of the lowest).
         """
         thresholds = np.atleast_1d(np.asarray(thresholds, dtype=float))
-        best = np.zeros(len(thresholds))
-        samples = self.distance.shape[1]
-        which, axes, inner, outer = [], [], [], []
-        for k, threshold in enumerate(thresholds):
-            reached = self.lower >= threshold
-            rows = np.flatnonzero(reached.any(axis=1))
-            if not len(rows):
-                continue
-            outermost = samples - 1 - np.argmax(reached[rows, ::-1], axis=1)
-            which.append(np.full(len(rows), k))
-            axes.append(self.directions[rows])
-            inner.append(self.distance[rows, outermost])
-            outer.append(self.distance[rows, np.minimum(outermost + 1, samples - 1)])
-            best[k] = float(np.max(inner[-1]))
-        if not which:
-            return best
-        which, axes, inner, outer = (np.concatenate(parts) for parts in (which, axes, inner, outer))
-        for _ in range(6):
-            promising = outer > best[which]
-            if not promising.any():
-                break
-            which, axes, inner, outer = which[promising], axes[promising], inner[promising], outer[promising]
-            middle = 0.5 * (inner + outer)
-            lower = _lower_values(self.bodies, self.index, axes, middle[:, None],
-                                  WITNESS_ERROR * float(np.min(thresholds)), self.table)[:, 0]
-            ok = lower >= thresholds[which]
-            inner = np.where(ok, middle, inner)
-            outer = np.where(ok, outer, middle)
-            np.maximum.at(best, which, inner)
-        return best
+        count = len(self.directions)
+        reached = np.concatenate([self.lower >= threshold for threshold in thresholds])  # threshold-major
+        group = np.repeat(np.arange(len(thresholds)), count)
+        allowed_error = WITNESS_ERROR * float(np.min(thresholds))
+
+        def check(rows, s):
+            lower = _lower_values(self.bodies, self.index, self.directions[rows % count], s[:, None],
+                                  allowed_error, self.table)[:, 0]
+            return lower >= thresholds[group[rows]]
+
+        return _farthest_on_paths(reached, np.tile(self.distance, (len(thresholds), 1)), group,
+                                  np.zeros(len(thresholds)), check, lambda rows, s: s)
 
 
 def _close_enough(proven, best):

@@ -114,7 +114,7 @@ def test_caps_proven_with_the_own_dipole_hold_under_brute_force():
     axes, half_angles = cone_of_triangle(icosahedron_triangles(3))
     points = centre + radius * axes
     threshold = 1.05 * float(np.median(field_size(bodies, points)))
-    cell = shell.Cell(table, 0)
+    cell = shell.Cell(table.centres, 0)
     inside = cell.excess(points) <= 0
     outcome_caps = []
     model = local_model(bodies, points[inside], 2e-3 * threshold, table)

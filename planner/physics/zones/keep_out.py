@@ -147,18 +147,12 @@ def _cell_limit(bodies, index, axes, half_angles):
     walking (and stalling) through the neighbour's cell: a wide cone aimed at a neighbour
     otherwise stalls next to it, where the field is high but not ours to certify.
     """
-    centre = bodies[index].center
-    limit = np.full(len(axes), np.inf)
-    for i, body in enumerate(bodies):
-        offset = body.center - centre
-        gap = float(np.linalg.norm(offset))
-        if i == index or gap == 0.0:
-            continue
-        theta = np.arccos(np.clip(axes @ (offset / gap), -1.0, 1.0))
-        cosine = np.cos(np.minimum(theta + half_angles, np.pi))
-        with np.errstate(divide="ignore"):
-            limit = np.minimum(limit, np.where(cosine > 1e-9, 0.5 * gap / cosine * (1 + 1e-9), np.inf))
-    return limit
+    cell = shell.Cell([body.center for body in bodies], index)
+    theta = np.arccos(np.clip(axes @ cell.normals.T, -1.0, 1.0))  # (cones, other centres)
+    cosine = np.cos(np.minimum(theta + half_angles[:, None], np.pi))
+    with np.errstate(divide="ignore"):
+        limit = np.where(cosine > 1e-9, 0.5 * cell.gaps / cosine * (1 + 1e-9), np.inf)
+    return np.min(limit, axis=1, initial=np.inf)
 
 
 def _march(bodies, index, axes, half_angles, radii, threshold, allowed_error, table=None, goal=0.0):
@@ -169,11 +163,7 @@ def _march(bodies, index, axes, half_angles, radii, threshold, allowed_error, ta
     at ``goal`` [m]: a radius the caller's answer cannot go below anyway.
     """
     centre = bodies[index].center
-    others = [i for i in range(len(bodies)) if not np.allclose(bodies[i].center, centre)]
-    normals = np.array([bodies[i].center - centre for i in others]).reshape(-1, 3)
-    half_gaps = np.linalg.norm(normals, axis=1) / 2
-    if len(others):
-        normals = normals / (2 * half_gaps[:, None])
+    cell = shell.Cell([body.center for body in bodies], index)
     radii = radii.astype(float).copy()
     floor = max(bodies[index].bounding_radius, goal)
     active = radii > floor
@@ -186,12 +176,9 @@ def _march(bodies, index, axes, half_angles, radii, threshold, allowed_error, ta
         points = centre + r[:, None] * axes[idx]
         lateral = 2 * r * np.sin(half_angles[idx] / 2)
         smallest = np.maximum(4e-3 * r, 5e-5)
-        step = np.full(len(idx), -np.inf)
-        into_other = np.full(len(idx), -np.inf)
-        if len(others):
-            # The whole slab lies in another magnet's cell: not ours to certify.
-            into_other = np.max(points @ normals.T - (centre @ normals.T + half_gaps), axis=1)
-            step = into_other - lateral
+        # The whole slab lies in another magnet's cell: not ours to certify.
+        into_other = cell.excess(points)
+        step = into_other - lateral
         need_field = step < smallest
         if need_field.any():
             depth, value, error = certified_depth(
@@ -283,7 +270,7 @@ def _face_search(bodies, index, points, outer, threshold, table, best, samples=1
     (geometric samples, then bisection past the outermost one at the threshold). Points of
     a face belong to the cell, so what is found there counts.
     """
-    cell = shell.Cell(table, index)
+    cell = shell.Cell(table.centres, index)
     if not len(cell.gaps) or not len(points):
         return best
     offsets = points - cell.centre

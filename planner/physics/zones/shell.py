@@ -98,16 +98,18 @@ class ShellOutcome(NamedTuple):
 
 
 class Cell:
-    """Magnet ``index``'s cell: the half-spaces (x - c) . n_i <= g_i / 2 of all other centres.
+    """Magnet ``index``'s cell among ``centres`` (b, 3) [m]: the half-spaces (x - c) . n_i <= g_i / 2 of
+    all other centres.
 
     ``centre`` c (3,) [m]; per other centre: ``gaps`` g_i [m], unit ``normals`` n_i towards
     it, the ``feet`` c + (g_i / 2) n_i of c on the bisecting planes [m], and unit vectors
     ``e1``, ``e2`` in those planes (e1, e2, n_i right-handed).
     """
 
-    def __init__(self, table: BodyTable, index: int):
-        self.centre = table.centres[index]
-        offsets = np.delete(table.centres, index, axis=0) - self.centre
+    def __init__(self, centres, index: int):
+        centres = np.asarray(centres, dtype=float).reshape(-1, 3)
+        self.centre = centres[index]
+        offsets = np.delete(centres, index, axis=0) - self.centre
         gaps = np.linalg.norm(offsets, axis=1)
         keep = gaps > 0  # a body at the same centre has no bisecting plane
         self.gaps = gaps[keep]
@@ -319,7 +321,7 @@ def prove_all_beyond(bodies, index: int, tasks, table: BodyTable | None = None) 
     numpy calls.
     """
     table = BodyTable(bodies) if table is None else table
-    cell = Cell(table, index)
+    cell = Cell(table.centres, index)
     outcomes = _prove_phase(bodies, index, tasks, table, cell, "caps")
     faces = [k for k, outcome in enumerate(outcomes) if outcome.proven]
     for k, outcome in zip(faces, _prove_phase(bodies, index, [tasks[k] for k in faces], table, cell, "faces")):

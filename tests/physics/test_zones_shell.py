@@ -194,7 +194,7 @@ def test_start_radii_from_the_grid_are_just_beyond_where_the_bound_meets_each_th
 
     def bound(r):
         distance = np.maximum(r, half_gap)
-        return np.sum(2 * bounds.K * table.moments / distance**3 + bounds.dipole_remainders(table, distance)[0])
+        return np.sum(2 * bounds.K * table.moments / distance**3 + bounds.dipole_remainder(table, distance, 0))
 
     for threshold, found in zip(thresholds, farthest_start_radii(bodies, 0, thresholds, table)):
         low, high = bodies[0].bounding_radius * 1.000001, 10.0

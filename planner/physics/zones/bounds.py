@@ -185,7 +185,7 @@ def dipole_assignment(bodies, points, allowed_error, table=None, distance=None):
     """Which bodies may be taken as point dipoles at each point, and what that costs.
 
     Returns ``far`` (n, b) bool, the summed field error bound (n,) [T] and the summed
-    gradient error bound (n,) [T/m] of the dipole stand-ins (:func:`dipole_remainders`).
+    gradient error bound (n,) [T/m] of the dipole stand-ins (:func:`dipole_remainder`, orders 0, 1).
     ``allowed_error`` [T] is one value or one per point (n,).
     At each point the bodies with the
     smallest remainders are dipoles as long as their summed field error stays within
@@ -195,7 +195,7 @@ def dipole_assignment(bodies, points, allowed_error, table=None, distance=None):
     table = body_table(bodies, table)
     if distance is None:
         distance = table.centre_distances(points)
-    remainder, gradient_remainder = dipole_remainders(table, distance)
+    remainder, gradient_remainder = dipole_remainder(table, distance, 0), dipole_remainder(table, distance, 1)
     with np.errstate(invalid="ignore"):
         # Spend the allowance greedily, smallest remainders first: a body is a dipole while
         # the running sum of the remainders stays within allowed_error (any choice is sound,
@@ -209,29 +209,6 @@ def dipole_assignment(bodies, points, allowed_error, table=None, distance=None):
         error = np.sum(np.where(far, remainder, 0.0), axis=1)
         gradient_error = np.sum(np.where(far, gradient_remainder, 0.0), axis=1)
     return far, error, gradient_error
-
-
-def dipole_remainders(table, distance):
-    """Bounds on how far each body's field and its Jacobian are from its point dipole's.
-
-    Parameters
-    ----------
-    table : BodyTable
-        The bodies' constants.
-    distance : ndarray (..., b)
-        Distances [m] from each body's centre (last axis: the bodies of ``table``).
-
-    Returns
-    -------
-    field, gradient : ndarray (..., b)
-        |B - B_dipole| [T] and ||D(B - B_dipole)|| [T/m] at least as large as the truth at
-        any point that far from the centre; +inf within a body's bounding sphere.
-
-    Notes
-    -----
-    Orders 0 and 1 of :func:`dipole_remainder`.
-    """
-    return dipole_remainder(table, distance, 0), dipole_remainder(table, distance, 1)
 
 
 def dipole_remainder(table, distance, order):

@@ -135,6 +135,13 @@ class LocalModel(NamedTuple):
     jacobian_error: np.ndarray
     geometry: tuple
 
+    def take(self, rows) -> "LocalModel":
+        """The model at the points ``rows`` only (the geometry's per-point columns with them)."""
+        geometry = tuple(part[rows] if isinstance(part, np.ndarray) and part.ndim == 2 else part
+                         for part in self.geometry)
+        return LocalModel(self.field[rows], self.jacobian[rows], self.error[rows], self.jacobian_error[rows],
+                          geometry)
+
 
 def local_model(bodies, points, allowed_error, table=None) -> LocalModel:
     """Model field and Jacobian at ``points`` (n, 3) [m], with their error bounds.

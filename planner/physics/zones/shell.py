@@ -387,12 +387,12 @@ def _prove_tasks(members, part, cell, work):
                                                          own)
             rest_second = (np.sum(second_each[rows, 1:], axis=1)
                            + dipole_remainder(own, (radius[rows] - chord[rows])[:, None], 2)[:, 0])
-            holds[rows] = _dipole_cap_holds(_take(model, rows), own_jacobian, part.vectors[0], radius[rows],
+            holds[rows] = _dipole_cap_holds(model.take(rows), own_jacobian, part.vectors[0], radius[rows],
                                             axes[rows], batch["half_angles"][rows], rest_second,
                                             proof_threshold[rows])
         rows = np.flatnonzero(~holds)  # faces, and caps beside the magnet: the general bound
         if len(rows):
-            holds[rows] = patch_below(_take(model, rows), axes[rows], batch["along"][rows], batch["across"][rows],
+            holds[rows] = patch_below(model.take(rows), axes[rows], batch["along"][rows], batch["across"][rows],
                                       proof_threshold[rows],
                                       (np.sum(first_each[rows], axis=1), np.sum(second_each[rows], axis=1)))
         start = 0
@@ -400,11 +400,3 @@ def _prove_tasks(members, part, cell, work):
             span = slice(start, start + count)
             task.settle(cell, points[span], witness[span], hopeless[span], holds[span])
             start += count
-
-
-def _take(model: LocalModel, rows) -> LocalModel:
-    """The model at the points ``rows`` only."""
-    geometry = tuple(part[rows] if isinstance(part, np.ndarray) and part.ndim == 2 else part
-                     for part in model.geometry)
-    return LocalModel(model.field[rows], model.jacobian[rows], model.error[rows], model.jacobian_error[rows],
-                      geometry)

@@ -190,3 +190,35 @@ def test_derivative_bound_factors_are_the_stated_series():
             at_node = sum(moments[j] * comb(order + 2 + 2 * j, 2 * j) * node ** (2 * j) for j in range(51)) \
                 + sum(comb(order + 2 + l, l) * node**l for l in range(102, 700, 2))
             assert table[order, cell] == pytest.approx(at_node, rel=1e-9)
+
+
+@pytest.mark.parametrize("size", [(0.03, 0.02, 0.008), (0.02, 0.02, 0.02), (0.004, 0.005, 0.04)])
+def test_block_bound_factors_are_the_stated_series_of_the_block_moments(size):
+    # independent computation: mu_l = mean of |r'|^l / R^l by Gauss-Legendre quadrature over
+    # the block (exact for these polynomials with 30 nodes per axis), mu_2 the smaller of that
+    # and the sum of |eigenvalues| of the traceless second moments; the table at each node is
+    # the series summed term by term (math.comb), degrees beyond 40 with mu_l = 1
+    from math import comb
+
+    from planner.physics.fields.multipole import block_bound_factors
+
+    half = np.array(size) / 2
+    reach = np.linalg.norm(half)
+    nodes, weights = np.polynomial.legendre.leggauss(30)
+    x, y, z = np.meshgrid(*(h * nodes for h in half), indexing="ij")
+    w = np.einsum("i,j,k->ijk", weights, weights, weights) / 8
+    square = (x**2 + y**2 + z**2) / reach**2
+    moments = [float(np.sum(w * square**j)) for j in range(21)]
+    second = np.array([np.sum(w * x**2), np.sum(w * y**2), np.sum(w * z**2)]) / reach**2
+    moments[1] = min(moments[1], float(np.sum(np.abs(second - second.sum() / 3))))
+    if size[0] == size[1] == size[2]:
+        assert moments[1] == pytest.approx(0.0, abs=1e-15)  # a cube has no degree-2 term
+    table = block_bound_factors(size, max_ratio=0.85, cells=512)
+    for q in (0.1, 0.4, 0.7, 0.84):
+        cell = int(np.ceil(q / 0.85 * 512))
+        node = 0.85 * cell / 512
+        for order in range(4):
+            direct = sum(moments[j] * comb(order + 2 + 2 * j, 2 * j) * node ** (2 * j) for j in range(21))
+            direct += sum(comb(order + 2 + l, l) * node**l for l in range(42, 700, 2))
+            assert table[order, cell] == pytest.approx(direct, rel=1e-9)
+            assert table[order, cell] >= direct * (1 - 1e-12)

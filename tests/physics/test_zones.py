@@ -221,15 +221,20 @@ def test_derivative_bounds_hold_beside_the_body(shape):
     assert np.all(curvature <= second)
 
 
-@pytest.mark.parametrize("shape", ["cylinder", "ring"])
+@pytest.mark.parametrize("shape", ["cylinder", "ring", "block", "cube"])
 def test_series_derivative_bounds_are_close_to_the_true_slope(shape):
     # independent computation: central differences of the exact field at 1.2 to 2 bounding
     # radii, where the multipole-series form applies; the bound holds and is within a small
     # factor of the true operator norm (the distance-only form was about 20x above it here)
     from planner.physics.zones.bounds import BodyTable, _ball_geometry, derivative_bounds
 
-    body = MagnetBody(shape, [0, 0, 0], rotation_from_axis([0.3, -0.2, 1.0]), [0.4, -0.3, 1.1],
-                      diameter=0.03, height=0.006, inner_diameter=0.012 if shape == "ring" else 0.0)
+    rotation = rotation_from_axis([0.3, -0.2, 1.0])
+    if shape in ("block", "cube"):
+        body = MagnetBody("block", [0, 0, 0], rotation, [0.4, -0.3, 1.1],
+                          size=[0.03, 0.02, 0.008] if shape == "block" else [0.02, 0.02, 0.02])
+    else:
+        body = MagnetBody(shape, [0, 0, 0], rotation, [0.4, -0.3, 1.1],
+                          diameter=0.03, height=0.006, inner_diameter=0.012 if shape == "ring" else 0.0)
     unit = RNG.normal(size=(300, 3))
     unit /= np.linalg.norm(unit, axis=1)[:, None]
     points = unit * (body.bounding_radius / RNG.uniform(0.5, 0.85, 300))[:, None]

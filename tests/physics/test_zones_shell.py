@@ -159,13 +159,15 @@ def test_flat_patches_proven_hold_under_brute_force():
         assert field_size(bodies, point + offset).max() < threshold
 
 
-@pytest.mark.parametrize("shape", ["cylinder", "ring", "block"])
-def test_second_derivatives_of_the_dipole_remainder_stay_within_their_bound(shape):
-    # Independent check: finite differences of (exact field - point dipole) at 2 to 6
-    # bounding radii; one direction at a time is a lower estimate of the norm.
+@pytest.mark.parametrize("shape", ["cylinder", "ring", "block", "cube"])
+def test_derivatives_of_the_dipole_remainder_stay_within_their_bound(shape):
+    # Independent check: the exact field minus the point dipole, and its finite differences
+    # along random directions (a lower estimate of each norm), at 1.25 to 6 bounding radii
+    # (the blocks' multipole series holds from 1.18).
     rotation = rotation_from_axis([0.3, -0.2, 1.0])
-    if shape == "block":
-        body = MagnetBody(shape, [0, 0, 0], rotation, [0.4, -0.3, 1.1], size=[0.03, 0.02, 0.008])
+    if shape in ("block", "cube"):
+        body = MagnetBody("block", [0, 0, 0], rotation, [0.4, -0.3, 1.1],
+                          size=[0.03, 0.02, 0.008] if shape == "block" else [0.02, 0.02, 0.02])
     else:
         body = MagnetBody(shape, [0, 0, 0], rotation, [0.4, -0.3, 1.1], diameter=0.03, height=0.006,
                           inner_diameter=0.012 if shape == "ring" else 0.0)
@@ -174,12 +176,18 @@ def test_second_derivatives_of_the_dipole_remainder_stay_within_their_bound(shap
     def remainder(at):
         return field_of_bodies([body], at) - dipole_field(at, body.moment, body.center)
 
-    points = random_directions(200) * (body.bounding_radius * RNG.uniform(2, 6, 200))[:, None]
+    points = random_directions(300) * (body.bounding_radius * RNG.uniform(1.25, 6, 300))[:, None]
     h = 1e-3 * body.bounding_radius
+    table = BodyTable([body])
+    distance = np.linalg.norm(points, axis=1)[:, None]
+    directions = random_directions(6)
+    first = np.max([np.linalg.norm(remainder(points + h * e) - remainder(points - h * e), axis=1) / (2 * h)
+                    for e in directions], axis=0)
     second = np.max([np.linalg.norm(remainder(points + h * e) + remainder(points - h * e) - 2 * remainder(points),
-                                    axis=1) / h**2 for e in random_directions(6)], axis=0)
-    bound = dipole_remainder(BodyTable([body]), np.linalg.norm(points, axis=1)[:, None] - 2 * h, 2)[:, 0]
-    assert np.all(second <= bound)
+                                    axis=1) / h**2 for e in directions], axis=0)
+    assert np.all(np.linalg.norm(remainder(points), axis=1) <= dipole_remainder(table, distance, 0)[:, 0])
+    assert np.all(first <= dipole_remainder(table, distance - h, 1)[:, 0])
+    assert np.all(second <= dipole_remainder(table, distance - 2 * h, 2)[:, 0])
 
 
 def test_start_radii_from_the_grid_are_just_beyond_where_the_bound_meets_each_threshold():

@@ -29,7 +29,7 @@ is bounded by (eps / 2) sqrt(3) L2 (Taylor remainder), plus the error of the fie
 Derivative bounds of order n for one body (``bounds.derivative_bounds``; (n+2)! from the Legendre
 expansion, the surface-charge forms from integrating 1/r^(n+2) over a plane or a cylinder):
 volume form (n+2)! k m / e^(n+3); surface form (n+1)!/(2n) A / D^n + (n+1)! b_n / 4 C / D^(n+1),
-b_1 = 2, b_2 = pi/2, b_3 = 4/3; for cylinders and rings also the multipole-series form
+b_1 = 2, b_2 = pi/2, b_3 = 4/3; for cylinders, rings and blocks also the multipole-series form
 (n+2)! k m S_n(a/d) / d^(n+3) (``zones.bounds``); the smallest is used. Here D is the distance to the
 solid and e = D for every shape but the sphere, e = d for a sphere (its outside field is
 exactly a dipole's at the centre). The volume form with e = D holds because outside the

@@ -195,7 +195,7 @@ def dipole_assignment(bodies, points, allowed_error, table=None, distance=None):
     """Which bodies may be taken as point dipoles at each point, and what that costs.
 
     Returns ``far`` (n, b) bool, the summed field error bound (n,) [T] and the summed
-    gradient error bound (n,) [T/m] of the dipole stand-ins (:func:`dipole_remainder`, orders 0, 1).
+    gradient error bound (n,) [T/m] of the dipole stand-ins (:func:`dipole_remainders`, orders 0, 1).
     ``allowed_error`` [T] is one value or one per point (n,).
     At each point the bodies with the
     smallest remainders are dipoles as long as their summed field error stays within
@@ -205,7 +205,7 @@ def dipole_assignment(bodies, points, allowed_error, table=None, distance=None):
     table = body_table(bodies, table)
     if distance is None:
         distance = table.centre_distances(points)
-    remainder, gradient_remainder = dipole_remainder(table, distance, 0), dipole_remainder(table, distance, 1)
+    remainder, gradient_remainder = dipole_remainders(table, distance, (0, 1))
     with np.errstate(invalid="ignore"):
         # Spend the allowance greedily, smallest remainders first: a body is a dipole while
         # the running sum of the remainders stays within allowed_error (any choice is sound,
@@ -233,17 +233,43 @@ def dipole_remainder(table, distance, order):
     smaller); see the module docstring. Both fall as d grows, so a bound at the smallest
     distance of a region holds over all of it; +inf within a body's bounding sphere.
     """
+    return dipole_remainders(table, distance, (order,))[0]
+
+
+def dipole_remainders(table, distance, orders):
+    """:func:`dipole_remainder` for each of ``orders``, sharing the distances' powers and the
+    series look-up between them."""
     moments, reach, square = table.moments, table.reach, table.square
     shift = np.where(square == 0, 0.0, reach)
     series = table.series
+    results = []
     with np.errstate(invalid="ignore", divide="ignore", over="ignore"):
-        gap = np.where(distance > reach * (1 + 1e-9), distance - shift, np.nan)
-        bound = factorial(order + 4) / 2 * K * moments * square / gap**(order + 5)
-        if series.usable(series.row):
-            index = series.index(series.row, reach / distance)
-            bound = np.fmin(bound, factorial(order + 2) * K * moments * (np.take(series.flat[order], index) - 1.0)
-                            / distance**(order + 3))
-    return np.where(np.isnan(bound), np.inf, bound)
+        outside = distance > reach * (1 + 1e-9)
+        inverse_gap = np.where(outside, 1.0 / np.where(outside, distance - shift, 1.0), np.nan)
+        inverse = 1.0 / distance
+        with_series = series.usable(series.row)
+        if with_series:
+            index = series.index(series.row, reach * inverse)
+        for order in orders:
+            bound = factorial(order + 4) / 2 * K * moments * square * _power(inverse_gap, order + 5)
+            if with_series:
+                bound = np.fmin(bound, factorial(order + 2) * K * moments
+                                * (np.take(series.flat[order], index) - 1.0) * _power(inverse, order + 3))
+            results.append(np.where(np.isnan(bound), np.inf, bound))
+    return results
+
+
+def _power(base, exponent):
+    """base ** exponent for a small positive integer exponent, by repeated squaring (np.power on
+    floats is several times slower)."""
+    result, square = None, base
+    while exponent:
+        if exponent & 1:
+            result = square if result is None else result * square
+        exponent >>= 1
+        if exponent:
+            square = square * square
+    return result
 
 
 def cell_field_bounds(table, index, radius, on_sphere=False):

@@ -137,10 +137,13 @@ class LocalModel(NamedTuple):
 
     def take(self, rows) -> "LocalModel":
         """The model at the points ``rows`` only (the geometry's per-point columns with them)."""
-        geometry = tuple(part[rows] if isinstance(part, np.ndarray) and part.ndim == 2 else part
-                         for part in self.geometry)
         return LocalModel(self.field[rows], self.jacobian[rows], self.error[rows], self.jacobian_error[rows],
-                          geometry)
+                          _geometry_rows(self.geometry, rows))
+
+
+def _geometry_rows(geometry, rows):
+    """The geometry tuple of :func:`~planner.physics.zones.bounds.derivative_bounds` at the points ``rows``."""
+    return tuple(part[rows] if isinstance(part, np.ndarray) and part.ndim == 2 else part for part in geometry)
 
 
 def local_model(bodies, points, allowed_error, table=None) -> LocalModel:
@@ -157,6 +160,7 @@ def local_model(bodies, points, allowed_error, table=None) -> LocalModel:
     geometry = _ball_geometry(bodies, points, table, distance)
     field, jacobian = dipole_field_and_jacobian(bodies, points, far, table, distance)
     step = 1e-4 * np.maximum(np.min(np.maximum(geometry[1], geometry[0] - geometry[3]), axis=1), 1e-9)
+    differenced = ~far.all(axis=1)  # points with an exact body, whose Jacobian is a forward difference
     for i, body in enumerate(bodies):
         near = np.flatnonzero(~far[:, i])
         if not len(near):
@@ -172,7 +176,10 @@ def local_model(bodies, points, allowed_error, table=None) -> LocalModel:
         # and the 3 x 3 Frobenius norm by three times that.
         jacobian_error[near] += 6e-8 * np.max(np.abs(values), axis=(0, 2)) / h
     # truncation: each column is off by at most (h / 2) max ||D^2 B|| within h of the point
-    jacobian_error += np.sqrt(3) * step / 2 * derivative_bound(geometry, step, 2)
+    if differenced.any():
+        rows = np.flatnonzero(differenced)
+        jacobian_error[rows] += np.sqrt(3) * step[rows] / 2 * derivative_bound(_geometry_rows(geometry, rows),
+                                                                                step[rows], 2)
     return LocalModel(field, jacobian, error, jacobian_error, geometry)
 
 

@@ -1,10 +1,23 @@
-"""Keep-out distances of all magnets at once, in worker processes."""
+"""Keep-out distances of all magnets at once (planner.physics.zones.table and .all_magnets).
+
+Checks: the same numbers in worker processes as in one (the same pure functions); brute-force
+sampling of the exact field of planner.physics.fields beyond each distance (an independent
+computation of what the proofs bound); and the settling step's bookkeeping of faces, against
+the rule of planner.physics.zones.all_magnets (each face between min(R_i, R_j) and
+max(R_i, R_j) proven once), which rests on the weak maximum principle (Gilbarg and
+Trudinger, Elliptic Partial Differential Equations of Second Order (2001), Theorem 3.1).
+"""
 from __future__ import annotations
 
 import numpy as np
+import pytest
 
 from planner.physics.bodies import MagnetBody, rotation_from_axis
-from planner.physics.zones import keep_out_radii, keep_out_table
+from planner.physics.zones import all_magnets, keep_out_radii, keep_out_table
+from tests.physics.brute_force import largest_field_beyond
+from tests.physics.test_zones_shell import bench
+
+RNG = np.random.default_rng(20261203)
 
 
 def small_bench():
@@ -14,11 +27,99 @@ def small_bench():
             MagnetBody("sphere", [-0.04, 0.03, 0], np.eye(3), [0, 1.2, 0], diameter=0.008)]
 
 
-def test_table_in_workers_equals_one_by_one():
+def spill_over():
+    """A strong block and a weak disc 30 mm apart: the block's field reaches well into the
+    disc's cell, across the face between them, at the lower thresholds."""
+    return [MagnetBody("block", [0, 0, 0], np.eye(3), [0, 0, 1.4], size=[0.02, 0.02, 0.02]),
+            MagnetBody("cylinder", [0.03, 0.0, 0.004], rotation_from_axis([1, 0, 0]), [0.3, 0, 0],
+                       diameter=0.005, height=0.002)]
+
+
+def test_table_in_workers_equals_one_process():
+    # identity: the same pure functions per magnet and round, wherever they run
     bodies, thresholds = small_bench(), [3e-3, 0.5e-3]
     table = keep_out_table(bodies, thresholds, workers=2)
-    # identity: the same pure function per magnet, wherever it runs
-    expected = np.array([keep_out_radii(bodies, i, thresholds) for i in range(len(bodies))])
     assert table.shape == (3, 2)
-    assert np.array_equal(table, expected)
-    assert np.array_equal(keep_out_table(bodies, thresholds, workers=1), expected)
+    assert np.array_equal(table, keep_out_table(bodies, thresholds, workers=1))
+
+
+@pytest.mark.parametrize("make", [small_bench, spill_over])
+def test_no_point_beyond_the_table_distances_reaches_the_threshold(make):
+    # brute force (60 000 random points of each cell just beyond its distance, exact field),
+    # and the two proven figures, the table's and one magnet's at a time, each within 5 % or
+    # 5 mm of the exact value, are within that of each other
+    bodies, thresholds = make(), np.array([0.5e-3, 3e-3, 20e-3])
+    table = keep_out_table(bodies, thresholds, workers=1)
+    for index in range(len(bodies)):
+        alone = keep_out_radii(bodies, index, thresholds)
+        for k, threshold in enumerate(thresholds):
+            assert largest_field_beyond(bodies, index, table[index, k], RNG) < threshold
+            assert abs(table[index, k] - alone[k]) <= max(0.05 * min(table[index, k], alone[k]), 5e-3)
+
+
+def test_a_grown_radius_sends_its_neighbours_back_to_the_face_between():
+    # Bookkeeping of the settling step: if magnet 0's radius at 6 mT grows from R to R' after
+    # the first round, each neighbour with a smaller radius must cover the face towards
+    # magnet 0 between max(its radius, R) and R' (or its start radius), and nothing else; a
+    # larger radius stays valid (it only claims less), so the grown figure is as sound as
+    # the proven one.
+    bodies, thresholds = bench(), np.array([6e-3])
+    first, second = rounds(bodies, thresholds)
+    grown = second[0].proven * 1.3
+    second[0] = second[0]._replace(proven=grown)
+    calls = []
+    original = all_magnets.shell.prove_all_beyond
+
+    def recording(bodies, index, tasks, table=None, phases=("caps", "faces")):
+        calls.append((index, tasks, phases))
+        return original(bodies, index, tasks, table, phases)
+
+    all_magnets.shell.prove_all_beyond = recording
+    try:
+        distances = all_magnets.settle(bodies, thresholds, first, second)
+    finally:
+        all_magnets.shell.prove_all_beyond = original
+    assert [index for index, _, _ in calls] == [1, 2]
+    for index, ((low, high, threshold, limits),), phases in calls:
+        assert second[index].shell[0] and second[index].proven[0] < first[0].proven[0]
+        assert phases == ("faces",) and threshold == thresholds[0]
+        assert low == max(second[index].proven[0], first[0].proven[0])
+        assert high == min(grown[0], first[index].starts[0])
+        assert limits[0] == high and np.count_nonzero(limits) == 1
+    assert np.array_equal(distances, np.array([proof.distances for proof in second]))
+
+
+def test_a_face_that_fails_between_the_radii_makes_that_magnet_try_farther_out():
+    # If the face towards a grown neighbour cannot be proven, the magnet with the smaller
+    # radius searches again and proves a radius beyond its first one (caps and faces); its
+    # distance is then checked by brute force like any other.
+    bodies, thresholds = bench(), np.array([6e-3])
+    first, second = rounds(bodies, thresholds)
+    second[0] = second[0]._replace(proven=second[0].proven * 1.3)
+    original = all_magnets.shell.prove_all_beyond
+    failed = []
+
+    def failing_once(bodies, index, tasks, table=None, phases=("caps", "faces")):
+        if phases == ("faces",) and index == 2 and not failed:
+            failed.append(index)
+            low, high = tasks[0][:2]
+            towards = bodies[0].center - bodies[2].center
+            point = bodies[2].center + 0.5 * (low + high) * towards / np.linalg.norm(towards)
+            return [all_magnets.shell.ShellOutcome(False, np.empty((0, 3)), point[None])]
+        return original(bodies, index, tasks, table, phases)
+
+    all_magnets.shell.prove_all_beyond = failing_once
+    try:
+        distances = all_magnets.settle(bodies, thresholds, first, second)
+    finally:
+        all_magnets.shell.prove_all_beyond = original
+    assert failed == [2]
+    assert distances[2, 0] > second[2].distances[0]
+    assert largest_field_beyond(bodies, 2, distances[2, 0], RNG) < thresholds[0]
+
+
+def rounds(bodies, thresholds):
+    """The two rounds of keep_out_table, in this process."""
+    first = [all_magnets.caps_first(bodies, i, thresholds) for i in range(len(bodies))]
+    radii = np.array([proof.proven for proof in first])
+    return first, [all_magnets.faces_next(bodies, i, thresholds, first[i], radii) for i in range(len(bodies))]

@@ -215,28 +215,46 @@ def keep_out_radii(bodies: list[MagnetBody], index: int, thresholds) -> np.ndarr
     ndarray (k,)
         Distances [m] in the order of ``thresholds``.
     """
+    thresholds = _checked(bodies, index, thresholds)
+    table = bounds.BodyTable(bodies)
+    starts, hits = _starts_and_hits(bodies, index, thresholds, table)
+    proven = _prove_all(bodies, index, thresholds, starts, table, *_first_tries(bodies, index, hits))[0]
+    return _finish(bodies, index, thresholds, starts, proven, table, hits)
+
+
+def _checked(bodies, index, thresholds):
+    """``thresholds`` as a float array, after checking them and ``index``."""
     thresholds = np.atleast_1d(np.asarray(thresholds, dtype=float))
     if np.any(~(thresholds > 0)):
         raise ValueError("thresholds must be positive flux densities in tesla")
     if not 0 <= index < len(bodies):
         raise IndexError(f"no body {index} among {len(bodies)}")
+    return thresholds
+
+
+def _starts_and_hits(bodies, index, thresholds, table):
+    """Start radii (k,) [m] and the farthest points found at each threshold on the shared rays (k,) [m]."""
+    starts = farthest_start_radii(bodies, index, thresholds, table)
+    lowest = int(np.argmin(thresholds))
+    # rays sampled once, out to the lowest threshold's start
+    hits = _RaySamples(bodies, index, starts[lowest], thresholds[lowest], table).farthest(thresholds)
+    return starts, hits
+
+
+def _finish(bodies, index, thresholds, starts, proven, table, hits):
+    """The distances (k,) [m] from the proven radii: a lower threshold's distance bounds the
+    higher ones', NaN is walked in cones, the bounding radius is the least, and the sampling
+    guard (:func:`_verify`) has the last word."""
     result = np.empty(len(thresholds))
     floor = bodies[index].bounding_radius
     previous = None
-    table = bounds.BodyTable(bodies)
-    starts = farthest_start_radii(bodies, index, thresholds, table)
-    order = np.argsort(thresholds)
-    # rays sampled once, out to the lowest threshold's start
-    hits = _RaySamples(bodies, index, starts[order[0]], thresholds[order[0]], table).farthest(thresholds)
-    proven = _prove_all(bodies, index, thresholds, starts, table, hits)
-    for position in order:
-        threshold = thresholds[position]
+    for position in np.argsort(thresholds):
         start = starts[position]
         if previous is not None:
             start = min(start, previous)
         radius = min(proven[position], start)
         if np.isnan(radius):  # magnets in the cell, or no proof at a close radius: walk cones
-            radius = _refine(bodies, index, threshold, start, table, hits[position])
+            radius = _refine(bodies, index, thresholds[position], start, table, hits[position])
         result[position] = previous = max(radius, floor)
     return _verify(bodies, index, thresholds, result, table=table) * (1 + 1e-9)  # rounding, outward
 
@@ -428,29 +446,41 @@ def _target(best):
     return max(best * (1 + RELATIVE_TARGET), best + ABSOLUTE_TARGET)
 
 
-def _prove_all(bodies, index, thresholds, starts, table, hits):
-    """Radii [m] proven by :func:`planner.physics.zones.shell.prove_all_beyond` near the best hits.
-
-    For each threshold, tries the radius just outside the farthest point found at it (4.5 %
-    or 4.5 mm); where the proof meets points at the threshold, or cannot settle some caps, it
-    looks for points farther out along those directions and tries again outside them, and
-    failing that a radius 2 % larger. The thresholds still open are proven together, each
-    out to its start radius or to the radius already proven for a lower threshold, whichever
-    is smaller. NaN where the cell beyond the radius holds another magnet
-    (:func:`~planner.physics.zones.shell.source_free`) or after ``PROOF_ATTEMPTS`` tries: the
-    caller then walks cones instead.
-    """
-    centre = bodies[index].center
+def _first_tries(bodies, index, hits):
+    """The best points known at the thresholds [m] (``hits``, or the bounding radius of a
+    non-sphere) and the radii to try proving first, just outside them."""
     floor_hit = 0.0 if bodies[index].shape == "sphere" else bodies[index].bounding_radius
     best = np.maximum(hits, floor_hit)
     radius = np.array([max(_target(b), bodies[index].bounding_radius * (1 + 1e-6)) for b in best])
+    return best, radius
+
+
+def _prove_all(bodies, index, thresholds, starts, table, best, radius, phases=("caps", "faces"), limits=None,
+               lower_outer=True):
+    """Radii [m] proven by :func:`planner.physics.zones.shell.prove_all_beyond` near the best hits.
+
+    For each threshold, tries ``radius`` (at first just outside the farthest point found at
+    it, 4.5 % or 4.5 mm: :func:`_first_tries`); where the proof meets points at the threshold,
+    or cannot settle some caps, it looks for points farther out along those directions and
+    tries again outside them, and failing that a radius 2 % larger. The thresholds still
+    open are proven together, each out to its start radius or (``lower_outer``) to the radius
+    already proven for a lower threshold, whichever is smaller. NaN where the cell beyond the
+    radius holds another magnet (:func:`~planner.physics.zones.shell.source_free`) or after
+    ``PROOF_ATTEMPTS`` tries: the caller then walks cones instead. ``phases`` and ``limits``
+    (per threshold, (len(bodies),) [m], or None) go to the shell proof.
+
+    Returns the radii (k,), ``best`` and ``radius`` as they ended (copies), and which radii
+    the shell proof gave (True) rather than the outer radius (False; NaN counts False).
+    """
+    best, radius = best.copy(), radius.copy()
     result = np.full(len(thresholds), np.nan)
+    shell_proven = np.zeros(len(thresholds), bool)
     open_ = np.ones(len(thresholds), bool)
     for _ in range(PROOF_ATTEMPTS):
         outer = starts.copy()
         for k in range(len(thresholds)):
             lower = (thresholds < thresholds[k]) & np.isfinite(result)
-            if lower.any():
+            if lower_outer and lower.any():
                 outer[k] = min(outer[k], float(np.min(result[lower])))
         tasks = []
         for k in np.flatnonzero(open_):
@@ -462,23 +492,33 @@ def _prove_all(bodies, index, thresholds, starts, table, hits):
                 tasks.append(k)
         if not tasks:
             break
-        outcomes = shell.prove_all_beyond(bodies, index, [(radius[k], outer[k], thresholds[k]) for k in tasks], table)
+        outcomes = shell.prove_all_beyond(
+            bodies, index, [(radius[k], outer[k], thresholds[k], None if limits is None else limits[k]) for k in tasks],
+            table, phases)
         for k, outcome in zip(tasks, outcomes):
             if outcome.proven:
-                result[k], open_[k] = radius[k], False
-                continue
-            points = outcome.witnesses if len(outcome.witnesses) else outcome.unproven
-            offsets = points - centre
-            axes = offsets / np.linalg.norm(offsets, axis=1)[:, None]
-            found = _probe(bodies, index, axes, np.full(len(axes), outer[k]), thresholds[k], table=table,
-                           inner=best[k])
-            found = _face_search(bodies, index, points, outer[k], thresholds[k], table, found)
-            if found > best[k]:
-                best[k] = found
-                radius[k] = max(_target(found), radius[k] * (1 + 1e-3))
+                result[k], open_[k], shell_proven[k] = radius[k], False, True
             else:
-                radius[k] *= 1 + LOOSER_STEP
-    return result
+                best[k], radius[k] = _next_try(bodies, index, outcome, outer[k], thresholds[k], table, best[k],
+                                               radius[k])
+    return result, best, radius, shell_proven
+
+
+def _next_try(bodies, index, outcome, outer, threshold, table, best, radius):
+    """After a failed shell proof: the best point known [m] and the radius to try next [m].
+
+    Searches for points at the threshold farther out along the directions of the points
+    the proof met at it (or of the caps it could not settle), and along the cell faces near
+    them; tries just outside a farther point found, or else a radius 2 % larger.
+    """
+    points = outcome.witnesses if len(outcome.witnesses) else outcome.unproven
+    offsets = points - bodies[index].center
+    axes = offsets / np.linalg.norm(offsets, axis=1)[:, None]
+    found = _probe(bodies, index, axes, np.full(len(axes), outer), threshold, table=table, inner=best)
+    found = _face_search(bodies, index, points, outer, threshold, table, found)
+    if found > best:
+        return found, max(_target(found), radius * (1 + 1e-3))
+    return best, radius * (1 + LOOSER_STEP)
 
 
 def _refine(bodies, index, threshold, start, table, hit):

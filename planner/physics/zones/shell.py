@@ -101,9 +101,10 @@ class Cell:
     """Magnet ``index``'s cell among ``centres`` (b, 3) [m]: the half-spaces (x - c) . n_i <= g_i / 2 of
     all other centres.
 
-    ``centre`` c (3,) [m]; per other centre: ``gaps`` g_i [m], unit ``normals`` n_i towards
-    it, the ``feet`` c + (g_i / 2) n_i of c on the bisecting planes [m], and unit vectors
-    ``e1``, ``e2`` in those planes (e1, e2, n_i right-handed).
+    ``centre`` c (3,) [m]; per other centre: ``others`` its index among ``centres``,
+    ``gaps`` g_i [m], unit ``normals`` n_i towards it, the ``feet`` c + (g_i / 2) n_i of c on
+    the bisecting planes [m], and unit vectors ``e1``, ``e2`` in those planes (e1, e2, n_i
+    right-handed).
     """
 
     def __init__(self, centres, index: int):
@@ -112,6 +113,7 @@ class Cell:
         offsets = np.delete(centres, index, axis=0) - self.centre
         gaps = np.linalg.norm(offsets, axis=1)
         keep = gaps > 0  # a body at the same centre has no bisecting plane
+        self.others = np.delete(np.arange(len(centres)), index)[keep]
         self.gaps = gaps[keep]
         self.normals = offsets[keep] / self.gaps[:, None]
         self.feet = self.centre + 0.5 * self.gaps[:, None] * self.normals
@@ -178,7 +180,7 @@ def _dipole_cap_holds(model: LocalModel, own_jacobian, moment, radius, axes, hal
 class _Task:
     """One radius and threshold to prove on the caps or on the face patches, and how far it has got."""
 
-    def __init__(self, radius, outer, threshold, left_out, phase, cell):
+    def __init__(self, radius, outer, threshold, left_out, phase, cell, limits=None):
         self.radius, self.outer, self.threshold, self.left_out = radius, outer, threshold, left_out
         self.proof_threshold = threshold - left_out
         self.phase, self.outcome = phase, None
@@ -187,7 +189,7 @@ class _Task:
             self.triangles = np.arange(20 * 4**FIRST_CAP_LEVEL)  # indices into the level's tiling
         else:
             self.level = 0
-            self.cells = _face_cells(cell, radius, outer)  # rows, s1, s2, phi1, phi2
+            self.cells = _face_cells(cell, radius, outer, limits)  # rows, s1, s2, phi1, phi2
             if self.cells is None:
                 self.outcome = _PROVEN
 
@@ -254,20 +256,23 @@ _NONE = np.empty((0, 3))
 _PROVEN = ShellOutcome(True, _NONE, _NONE)
 
 
-def _face_cells(cell, radius, outer):
+def _face_cells(cell, radius, outer, limits=None):
     """The first polar cells of every face between ``radius`` and ``outer`` [m].
 
-    Returns per cell: face row (into cell.normals), s1, s2 [m] (distances from the foot of c
-    on the plane) and phi1, phi2 [rad]; None if no face comes within ``outer``.
+    ``limits`` (b,) [m], per body index: the face towards that body is covered only out to
+    that distance from the centre, if smaller than ``outer``. Returns per cell: face row (into
+    cell.normals), s1, s2 [m] (distances from the foot of c on the plane) and phi1, phi2
+    [rad]; None if no face comes within its outer distance.
     """
     rows, inner_s, outer_s, first, last = [], [], [], [], []
     for row, gap in enumerate(cell.gaps):
         half = 0.5 * gap
         low = max(radius, half)
-        if low >= outer:
+        end = outer if limits is None else min(outer, float(limits[cell.others[row]]))
+        if low >= end:
             continue
-        rings = max(int(np.ceil(np.log(outer / low) / np.log(FACE_RING_RATIO))), 1)
-        distances = low * (outer / low) ** np.linspace(0.0, 1.0, rings + 1)
+        rings = max(int(np.ceil(np.log(end / low) / np.log(FACE_RING_RATIO))), 1)
+        distances = low * (end / low) ** np.linspace(0.0, 1.0, rings + 1)
         s = np.sqrt(np.maximum(distances**2 - half**2, 0.0))
         phi = np.linspace(0.0, 2 * np.pi, FACE_SECTORS + 1)
         ring, sector = np.meshgrid(np.arange(rings), np.arange(FACE_SECTORS), indexing="ij")
@@ -313,32 +318,43 @@ def prove_beyond(bodies, index: int, radius: float, outer: float, threshold: flo
     return prove_all_beyond(bodies, index, [(radius, outer, threshold)], table)[0]
 
 
-def prove_all_beyond(bodies, index: int, tasks, table: BodyTable | None = None) -> list[ShellOutcome]:
+def prove_all_beyond(bodies, index: int, tasks, table: BodyTable | None = None,
+                     phases=("caps", "faces")) -> list[ShellOutcome]:
     """:func:`prove_beyond` for several ``tasks`` (radius, outer, threshold) of one magnet at once.
 
     The tasks' caps and face patches at each step share one evaluation of the field model,
     with the bodies any of them needs: the same verdicts as one by one, in fewer and larger
     numpy calls.
+
+    A task may carry a fourth item, ``limits`` (len(bodies),) [m]: the face towards body j is
+    then proven only out to ``limits[j]`` from the centre (where it is smaller than outer),
+    for a caller that knows the cell of j proven below the threshold beyond that distance
+    (:func:`planner.physics.zones.table.keep_out_table`). ``phases``: "caps" (the sphere),
+    "faces", or both in turn (the faces only of the tasks whose caps were proven).
     """
     table = BodyTable(bodies) if table is None else table
     cell = Cell(table.centres, index)
-    outcomes = _prove_phase(bodies, index, tasks, table, cell, "caps")
-    faces = [k for k, outcome in enumerate(outcomes) if outcome.proven]
-    for k, outcome in zip(faces, _prove_phase(bodies, index, [tasks[k] for k in faces], table, cell, "faces")):
-        outcomes[k] = outcome
+    tasks = [tuple(task) + (None,) * (4 - len(task)) for task in tasks]
+    outcomes = [_PROVEN] * len(tasks)
+    if "caps" in phases:
+        outcomes = _prove_phase(bodies, index, tasks, table, cell, "caps")
+    if "faces" in phases:
+        faces = [k for k, outcome in enumerate(outcomes) if outcome.proven]
+        for k, outcome in zip(faces, _prove_phase(bodies, index, [tasks[k] for k in faces], table, cell, "faces")):
+            outcomes[k] = outcome
     return outcomes
 
 
 def _prove_phase(bodies, index, tasks, table, cell, phase):
-    """The caps (``phase`` "caps") or the face patches ("faces") of every task, in groups of
-    tasks that need about as many bodies modelled."""
-    bounds = [cell_field_bounds(table, index, radius, on_sphere=phase == "caps") for radius, _, _ in tasks]
+    """The caps (``phase`` "caps") or the face patches ("faces") of every task (radius, outer,
+    threshold, limits), in groups of tasks that need about as many bodies modelled."""
+    bounds = [cell_field_bounds(table, index, task[0], on_sphere=phase == "caps") for task in tasks]
     for bound in bounds:
         bound[index] = np.inf  # the magnet itself is always modelled
     needed = []
-    for bound, (_, _, threshold) in zip(bounds, tasks):
+    for bound, task in zip(bounds, tasks):
         order = np.argsort(bound, kind="stable")
-        needed.append(set(order[np.cumsum(bound[order]) > IGNORED_SHARE * threshold].tolist()) | {index})
+        needed.append(set(order[np.cumsum(bound[order]) > IGNORED_SHARE * task[2]].tolist()) | {index})
     outcomes = [None] * len(tasks)
     # Tasks that need about as many bodies share their evaluations; a task that needs far
     # fewer would pay for the others' bodies at every point, so it goes in a group of its own.
@@ -351,7 +367,7 @@ def _prove_phase(bodies, index, tasks, table, cell, phase):
         kept = np.array([index] + sorted(kept - {index}), dtype=np.intp)
         left_out = np.ones(len(bodies), bool)
         left_out[kept] = False
-        work = [_Task(*tasks[k], float(np.sum(bounds[k][left_out])), phase, cell) for k in group]
+        work = [_Task(*tasks[k][:3], float(np.sum(bounds[k][left_out])), phase, cell, tasks[k][3]) for k in group]
         for k, outcome in zip(group, _prove_tasks([bodies[i] for i in kept], table.subset(kept), cell, work)):
             outcomes[k] = outcome
     return outcomes

@@ -1,23 +1,26 @@
 """Keep-out distances of every magnet at every threshold, spread over the machine's cores.
 
-The distances of different magnets are independent computations
-(:func:`planner.physics.zones.keep_out_radii` per magnet), so they run in separate worker
-processes when the machine has more than one core and runs Linux, where forking is safe (the
-workers inherit the loaded program instead of importing it again); elsewhere one by one. The numbers are the same as
-computed one by one: each worker runs the same pure function on the same input.
+The work goes in two rounds over the magnets (:mod:`planner.physics.zones.all_magnets`):
+each magnet's sphere first, then, with every magnet's radius known, the faces between
+neighbouring cells, each once; a last step here settles the few radii that grew in the
+second round. Within a round the magnets are independent, so they run in separate worker
+processes when the machine has more than one core and runs Linux, where forking is safe
+(the workers inherit the loaded program instead of importing it again); elsewhere one by
+one. The numbers are the same either way: each round runs the same pure functions on the
+same input, and the last step runs in this process.
 """
 from __future__ import annotations
 
 import multiprocessing
 import os
 import sys
-from concurrent.futures import ProcessPoolExecutor
+from concurrent.futures import ProcessPoolExecutor, ThreadPoolExecutor
 
 import numpy as np
 
 from planner.physics.bodies import MagnetBody
+from planner.physics.zones.all_magnets import caps_first, faces_next, settle
 from planner.physics.zones.bounds import BodyTable
-from planner.physics.zones.keep_out import keep_out_radii
 
 __all__ = ["KeepOutJob", "keep_out_table", "available_workers"]
 
@@ -34,7 +37,8 @@ class KeepOutJob:
     """Keep-out distances being computed in worker processes; :meth:`result` waits for them.
 
     Lets the caller compute other figures in its own process meanwhile (the workers and the
-    caller then share the cores). With one worker the work is done in :meth:`result`.
+    caller then share the cores; a thread here hands the rounds to the workers). With one
+    worker the work is done in :meth:`result`.
     """
 
     def __init__(self, bodies: list[MagnetBody], thresholds, workers: int | None = None):
@@ -42,26 +46,33 @@ class KeepOutJob:
         self.thresholds = np.atleast_1d(np.asarray(thresholds, dtype=float))
         count = len(self.bodies)
         self.workers = min(available_workers() if workers is None else int(workers), count)
-        self._pool, self._futures = None, {}
+        self._pool = self._rounds = self._outcome = None
         if self.workers > 1:
             # The bodies' series tables are cached per shape: filling the caches here, before
             # forking, lets every worker inherit them instead of computing them again.
             BodyTable(self.bodies)
-            order = np.argsort([-float(np.linalg.norm(body.moment)) for body in self.bodies], kind="stable")
             self._pool = ProcessPoolExecutor(max_workers=self.workers, mp_context=multiprocessing.get_context("fork"))
-            self._futures = {int(i): self._pool.submit(keep_out_radii, self.bodies, int(i), self.thresholds)
-                             for i in order}
+            self._rounds = ThreadPoolExecutor(max_workers=1)
+            self._outcome = self._rounds.submit(self._run, self._pool.submit)
+
+    def _run(self, submit):
+        """The two rounds and the settling step; ``submit(function, *arguments)`` returns a future."""
+        bodies, thresholds = self.bodies, self.thresholds
+        # the largest magnets first: their distances take longest, so the work spreads evenly
+        order = np.argsort([-float(np.linalg.norm(body.moment)) for body in bodies], kind="stable")
+        futures = {int(i): submit(caps_first, bodies, int(i), thresholds) for i in order}
+        first = [futures[i].result() for i in range(len(bodies))]
+        radii = np.array([proof.proven for proof in first]).reshape(len(bodies), -1)
+        futures = {int(i): submit(faces_next, bodies, int(i), thresholds, first[i], radii) for i in order}
+        second = [futures[i].result() for i in range(len(bodies))]
+        return settle(bodies, thresholds, first, second)
 
     def result(self) -> np.ndarray:
         """Distances [m], (len(bodies), len(thresholds)); see :func:`keep_out_table`."""
-        count = len(self.bodies)
         if self._pool is None:
-            return np.array([keep_out_radii(self.bodies, i, self.thresholds) for i in range(count)]).reshape(count, -1)
+            return self._run(_Done).reshape(len(self.bodies), -1)
         try:
-            result = np.empty((count, len(self.thresholds)))
-            for i, future in self._futures.items():
-                result[i] = future.result()
-            return result
+            return self._outcome.result()
         finally:
             self.close()
 
@@ -69,7 +80,18 @@ class KeepOutJob:
         """Stop the workers (unfinished distances are dropped)."""
         if self._pool is not None:
             self._pool.shutdown(wait=True, cancel_futures=True)
+            self._rounds.shutdown(wait=True)
             self._pool = None
+
+
+class _Done:
+    """A finished computation with the interface of a future: runs ``function(*arguments)`` at once."""
+
+    def __init__(self, function, *arguments):
+        self.value = function(*arguments)
+
+    def result(self):
+        return self.value
 
 
 def keep_out_table(bodies: list[MagnetBody], thresholds, workers: int | None = None) -> np.ndarray:
@@ -87,7 +109,10 @@ def keep_out_table(bodies: list[MagnetBody], thresholds, workers: int | None = N
     Returns
     -------
     ndarray (len(bodies), k)
-        Row i is ``keep_out_radii(bodies, i, thresholds)``.
+        Row i carries the guarantee of ``keep_out_radii(bodies, i, thresholds)`` (never
+        below the exact distance; 4.5 % or 4.5 mm beyond a point found at the threshold
+        unless a proof needed more) and usually equals it; the faces between cells are
+        proven once for both magnets (:mod:`planner.physics.zones.all_magnets`).
 
     Notes
     -----

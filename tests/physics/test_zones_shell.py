@@ -328,3 +328,33 @@ def test_keep_out_of_scattered_magnets_is_within_the_margin():
         found = keep_out_radii(bodies, index, [1e-3])[0]
         exact_low = farthest_found(bodies, index, 1e-3, 1.5 * found, RNG)
         assert exact_low <= found <= max(1.05 * exact_low, exact_low + 5e-3)
+
+
+def test_clipped_caps_hold_the_part_of_each_cap_inside_the_face():
+    # Brute force: points of random caps (1-25 degrees) on the inner side of random planes
+    # u . v <= h lie within the returned cap; caps reported wholly beyond have no such point;
+    # and caps the plane cuts near their edge shrink.
+    # (a cell's faces lie at heights h = g / 2R > 0; negative ones must come back unchanged)
+    count = 600
+    axes, normals = random_directions(count), random_directions(count)
+    axes *= np.sign(np.sum(axes * normals, axis=1))[:, None]
+    half_angles = RNG.uniform(0.02, 0.45, count)
+    heights = np.sum(axes * normals, axis=1) + RNG.uniform(-1.3, 1.3, count) * np.sin(half_angles)
+    new_axes, new_half_angles, beyond = shell.clipped_caps(axes, half_angles, normals, heights)
+    for k in range(count):
+        # points of the cap: its centre, its rim and random points inside
+        across = random_directions(3000)
+        across -= np.outer(across @ axes[k], axes[k])
+        across /= np.linalg.norm(across, axis=1)[:, None]
+        angle = half_angles[k] * np.concatenate([np.ones(1000), np.sqrt(RNG.random(2000))])
+        points = np.cos(angle)[:, None] * axes[k] + np.sin(angle)[:, None] * across
+        inner = points @ normals[k] <= heights[k]
+        if beyond[k]:
+            assert not inner.any()
+            continue
+        seen = np.arccos(np.clip(points[inner] @ new_axes[k], -1.0, 1.0))
+        assert np.all(seen <= new_half_angles[k] * (1 + 1e-9))  # the rim's rounding
+    shrunk = new_half_angles < half_angles
+    assert shrunk.sum() > count / 10
+    assert np.all(new_half_angles <= half_angles)
+    assert not np.any(shrunk & (heights < 0))

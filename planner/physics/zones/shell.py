@@ -71,7 +71,7 @@ from planner.physics.zones.bounds import K, BodyTable, cell_field_bounds, deriva
 from planner.physics.zones.certify import LocalModel, dipole_field_and_jacobian, local_model, patch_below
 from planner.physics.zones.sampling import child_indices, icosahedron_cones
 
-__all__ = ["ShellOutcome", "source_free", "prove_beyond", "prove_all_beyond"]
+__all__ = ["ShellOutcome", "source_free", "clipped_caps", "prove_beyond", "prove_all_beyond"]
 
 IGNORED_SHARE = 0.01  # of the threshold, for the bodies left out of the per-patch work
 MODEL_SHARE = 1e-2  # of the threshold, for the dipole stand-ins' error at each patch centre
@@ -121,9 +121,58 @@ class Cell:
 
     def excess(self, points):
         """Largest (x - c) . n_i - g_i / 2 over the other centres (n,) [m]: > 0 outside the cell."""
+        return self.excess_and_face(points)[0]
+
+    def excess_and_face(self, points):
+        """:meth:`excess` and the row of the face that gives it (n,) (0 where there is none)."""
         if not len(self.gaps):
-            return np.full(len(points), -np.inf)
-        return np.max((points - self.centre) @ self.normals.T - 0.5 * self.gaps, axis=1)
+            return np.full(len(points), -np.inf), np.zeros(len(points), np.intp)
+        beyond = (points - self.centre) @ self.normals.T - 0.5 * self.gaps
+        row = np.argmax(beyond, axis=1)
+        return beyond[np.arange(len(points)), row], row
+
+
+def clipped_caps(axes, half_angles, normals, heights):
+    """Smaller caps holding the part of each cap (``axes`` n, ``half_angles`` delta) inside the
+    half-space u . v <= h of the unit sphere (``normals`` v (n, 3), ``heights`` h (n,) >= 0).
+
+    For a cap that the plane cuts, that part is bounded by an arc of the cap's circle (from
+    one corner, where the two circles meet, through the point p farthest from the plane) and
+    an arc of the plane's circle between the corners. Both arcs lie in the great circle
+    through n and v's mirror image, so seen from any point n' of that great circle the
+    distance along each arc grows towards its ends: the farthest points of the part are p
+    and the corners. n' is taken halfway (along the chord) between p and the corners' middle,
+    and the new half-angle is its larger angle to them. Caps the plane does not cut, and
+    those for which this is not smaller, are returned as they were. Returns the axes (n, 3),
+    the half-angles (n,) [rad] and which caps lie wholly beyond the plane (n,) bool: their
+    nearest point to it, at the angle theta + delta from v (theta the centre's), has
+    cos(theta + delta) > h.
+    """
+    cosine = np.cos(half_angles)
+    tilt = np.sum(axes * normals, axis=1)
+    side = np.sqrt(np.maximum(1 - tilt**2, 0.0))
+    with np.errstate(invalid="ignore", divide="ignore"):
+        across = (normals - tilt[:, None] * axes) / side[:, None]  # unit, from n towards the plane
+        towards = (heights - cosine * tilt) / side  # the corners' component along it
+        height = np.sqrt(1 - cosine**2 - towards**2)  # and across the great circle
+    # h >= 0 (a plane that keeps the sphere's centre on the inner side, as the cell's faces
+    # do) and delta <= pi / 2: the plane's circle then meets the cap in one short arc
+    cut = (side > 1e-9) & (height > 0) & (heights >= 0) & (half_angles <= np.pi / 2)
+    deepest = cosine[:, None] * axes - np.sin(half_angles)[:, None] * across
+    middle = cosine[:, None] * axes + np.nan_to_num(towards)[:, None] * across
+    corner_size = np.linalg.norm(middle, axis=1)
+    middle = middle / np.where(corner_size > 0, corner_size, 1.0)[:, None]
+    centre = deepest + middle
+    centre /= np.maximum(np.linalg.norm(centre, axis=1), 1e-300)[:, None]
+    # the corner as seen from the new centre: the corners' middle direction plus the part across
+    corner = cosine[:, None] * axes + np.nan_to_num(towards)[:, None] * across
+    across_both = np.cross(axes, across)
+    corner = corner + np.nan_to_num(height)[:, None] * across_both
+    angle = np.maximum(np.arccos(np.clip(np.sum(centre * deepest, axis=1), -1, 1)),
+                       np.arccos(np.clip(np.sum(centre * corner, axis=1), -1, 1))) * (1 + 1e-9) + 1e-12
+    smaller = cut & (angle < half_angles)
+    beyond = np.cos(np.minimum(np.arccos(np.clip(tilt, -1, 1)) + half_angles, np.pi)) > heights
+    return np.where(smaller[:, None], centre, axes), np.where(smaller, angle, half_angles), beyond
 
 
 def source_free(table: BodyTable, index: int, radius: float) -> bool:
@@ -201,14 +250,31 @@ class _Task:
                 axes, half_angles = (part[self.triangles] for part in icosahedron_cones(self.level))
                 points = cell.centre + self.radius * axes
                 chord = 2 * self.radius * np.sin(half_angles / 2)
-                excess = cell.excess(points)
+                excess, face = cell.excess_and_face(points)
                 inside = excess - chord <= 0  # caps wholly in another cell have nothing to prove
                 if inside.any():
                     self.triangles = self.triangles[inside]
-                    return dict(points=points[inside], axes=axes[inside], chord=chord[inside],
-                                along=self.radius * (1 - np.cos(half_angles[inside])),
-                                across=self.radius * np.sin(half_angles[inside]), half_angles=half_angles[inside],
-                                excess=excess[inside], cap=np.ones(inside.sum(), bool))
+                    axes, half_angles, excess, face = axes[inside], half_angles[inside], excess[inside], face[inside]
+                    # only the part of a cap on this side of the nearest face is the cell's
+                    cut = np.flatnonzero(excess + chord[inside] > 0)
+                    if len(cut):
+                        axes, half_angles = axes.copy(), half_angles.copy()
+                        axes[cut], half_angles[cut], beyond = clipped_caps(
+                            axes[cut], half_angles[cut], cell.normals[face[cut]],
+                            0.5 * cell.gaps[face[cut]] / self.radius)
+                        keep = np.ones(len(axes), bool)
+                        keep[cut[beyond]] = False  # wholly outside after all
+                        if not keep.any():
+                            self.outcome = _PROVEN
+                            break
+                        self.triangles, axes, half_angles = self.triangles[keep], axes[keep], half_angles[keep]
+                        points = cell.centre + self.radius * axes
+                        excess = cell.excess(points)
+                    else:
+                        points = points[inside]
+                    return dict(points=points, axes=axes, chord=2 * self.radius * np.sin(half_angles / 2),
+                                along=self.radius * (1 - np.cos(half_angles)), across=self.radius * np.sin(half_angles),
+                                half_angles=half_angles, excess=excess, cap=np.ones(len(axes), bool))
                 self.outcome = _PROVEN
             else:
                 rows, s1, s2, phi1, phi2 = self.cells

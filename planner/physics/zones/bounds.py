@@ -339,8 +339,8 @@ def field_with_error(bodies, points, allowed_error, table=None):
     bodies : list of MagnetBody
     points : array (n, 3)
         [m].
-    allowed_error : float
-        Largest error [T] the caller accepts; at each point the bodies with the smallest
+    allowed_error : float or array (n,)
+        Largest error [T] the caller accepts (one value, or one per point); at each point the bodies with the smallest
         dipole errors are taken as dipoles while their sum stays within it
         (:func:`dipole_assignment`).
     table : BodyTable, optional

@@ -272,7 +272,8 @@ def _in_own_cell(table, index, points):
 
 def _lower_values(bodies, index, axes, distance, allowed_error, table):
     """|B| minus its proven error [T] at ``distance`` (n, k) [m] along ``axes`` (n, 3) from
-    body ``index``'s centre, with the far-field error ``allowed_error`` [T]; -inf at points
+    body ``index``'s centre, with the far-field error ``allowed_error`` [T] (one value, or one
+    per point of ``distance``); -inf at points
     outside the body's own cell (nearer another centre), which are not its to count."""
     points = bodies[index].center + (distance[..., None] * axes[:, None, :]).reshape(-1, 3)
     return _lower_at(bodies, index, points, allowed_error, table).reshape(distance.shape)
@@ -318,11 +319,15 @@ def _face_search(bodies, index, points, outer, threshold, table, best, samples=1
 
 
 def _lower_at(bodies, index, points, allowed_error, table):
-    """|B| minus its proven error [T] at ``points`` (n, 3); -inf outside body ``index``'s cell."""
+    """|B| minus its proven error [T] at ``points`` (n, 3); -inf outside body ``index``'s cell.
+
+    ``allowed_error`` [T]: one value or one per point.
+    """
     keep = _in_own_cell(table, index, points)
     lower = np.full(len(points), -np.inf)
     if keep.any():
-        value, error = field_with_error(bodies, points[keep], allowed_error, table)
+        allowed = np.broadcast_to(np.asarray(allowed_error, dtype=float), (len(points),))[keep]
+        value, error = field_with_error(bodies, points[keep], allowed, table)
         lower[keep] = value - error
     return lower
 
@@ -413,7 +418,14 @@ class _RaySamples:
         self.directions = fibonacci_directions(count)
         floor = bodies[index].bounding_radius * (1 + 1e-6)
         self.distance = np.broadcast_to(_geometric_radii(floor, max(reach, floor), samples), (count, samples))
-        self.lower = _lower_values(bodies, index, self.directions, self.distance, WITNESS_ERROR * lowest, table)
+        # A sample is compared with every threshold, so it needs the precision of the lowest
+        # only where its field may be that low: far from the magnet. Nearer, 1 % of the
+        # magnet's own dipole scale k m / r^3 (at most its field, at least half of it) is as
+        # fine compared with the thresholds the sample can decide, and lets the neighbours
+        # be taken as dipoles there. Any allowance is sound: it is subtracted.
+        scale = bounds.K * float(table.moments[index]) / self.distance**3
+        allowed = WITNESS_ERROR * np.maximum(lowest, scale)
+        self.lower = _lower_values(bodies, index, self.directions, self.distance, allowed.ravel(), table)
 
     def farthest(self, thresholds):
         """Farthest radius [m] found at each of ``thresholds`` (k,) [T] on these rays (0 if none).
@@ -426,11 +438,9 @@ class _RaySamples:
         count = len(self.directions)
         reached = np.concatenate([self.lower >= threshold for threshold in thresholds])  # threshold-major
         group = np.repeat(np.arange(len(thresholds)), count)
-        allowed_error = WITNESS_ERROR * float(np.min(thresholds))
-
         def check(rows, s):
             lower = _lower_values(self.bodies, self.index, self.directions[rows % count], s[:, None],
-                                  allowed_error, self.table)[:, 0]
+                                  WITNESS_ERROR * thresholds[group[rows]], self.table)[:, 0]
             return lower >= thresholds[group[rows]]
 
         return _farthest_on_paths(reached, np.tile(self.distance, (len(thresholds), 1)), group,

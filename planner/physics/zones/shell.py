@@ -75,7 +75,7 @@ __all__ = ["ShellOutcome", "source_free", "clipped_caps", "prove_beyond", "prove
 
 IGNORED_SHARE = 0.01  # of the threshold, for the bodies left out of the per-patch work
 MODEL_SHARE = 1e-2  # of the threshold, for the dipole stand-ins' error at each patch centre
-FIRST_CAP_LEVEL = 1  # 80 caps of about 18 degrees to begin with
+FIRST_CAP_LEVEL = 2  # 320 caps of about 9 degrees to begin with (at 18, four in five failed)
 LAST_CAP_LEVEL = 6
 FACE_RING_RATIO = 1.15  # radial cells of the face patches, as a ratio of distances from c
 FACE_SECTORS = 16
@@ -148,29 +148,29 @@ def clipped_caps(axes, half_angles, normals, heights):
     nearest point to it, at the angle theta + delta from v (theta the centre's), has
     cos(theta + delta) > h.
     """
-    cosine = np.cos(half_angles)
+    cosine, sine = np.cos(half_angles), np.sin(half_angles)
     tilt = np.sum(axes * normals, axis=1)
     side = np.sqrt(np.maximum(1 - tilt**2, 0.0))
     with np.errstate(invalid="ignore", divide="ignore"):
         across = (normals - tilt[:, None] * axes) / side[:, None]  # unit, from n towards the plane
         towards = (heights - cosine * tilt) / side  # the corners' component along it
-        height = np.sqrt(1 - cosine**2 - towards**2)  # and across the great circle
+        height = 1 - cosine**2 - towards**2  # the square of their component across both
     # h >= 0 (a plane that keeps the sphere's centre on the inner side, as the cell's faces
     # do) and delta <= pi / 2: the plane's circle then meets the cap in one short arc
     cut = (side > 1e-9) & (height > 0) & (heights >= 0) & (half_angles <= np.pi / 2)
-    deepest = cosine[:, None] * axes - np.sin(half_angles)[:, None] * across
-    middle = cosine[:, None] * axes + np.nan_to_num(towards)[:, None] * across
-    corner_size = np.linalg.norm(middle, axis=1)
-    middle = middle / np.where(corner_size > 0, corner_size, 1.0)[:, None]
-    centre = deepest + middle
-    centre /= np.maximum(np.linalg.norm(centre, axis=1), 1e-300)[:, None]
-    # the corner as seen from the new centre: the corners' middle direction plus the part across
-    corner = cosine[:, None] * axes + np.nan_to_num(towards)[:, None] * across
-    across_both = np.cross(axes, across)
-    corner = corner + np.nan_to_num(height)[:, None] * across_both
-    angle = np.maximum(np.arccos(np.clip(np.sum(centre * deepest, axis=1), -1, 1)),
-                       np.arccos(np.clip(np.sum(centre * corner, axis=1), -1, 1))) * (1 + 1e-9) + 1e-12
+    # In the coordinates (along n, along ``across``) of their great circle: the farthest
+    # point p = (cos delta, -sin delta), the corners' middle direction (cos delta, towards)
+    # normalized, the new centre n' = (a, b) halfway between them; the corners themselves are
+    # (cos delta, towards, +-sqrt(height)), so cos(angle(n', corner)) = a cos delta + b towards.
+    towards = np.where(cut, towards, 0.0)
+    middle = np.sqrt(cosine**2 + towards**2)
+    a, b = cosine + cosine / middle, towards / middle - sine
+    size = np.hypot(a, b)
+    a, b = a / size, b / size
+    angle = np.arccos(np.clip(np.minimum(a * cosine - b * sine, a * cosine + b * towards), -1.0, 1.0))
+    angle = angle * (1 + 1e-9) + 1e-12
     smaller = cut & (angle < half_angles)
+    centre = a[:, None] * axes + b[:, None] * np.nan_to_num(across)
     beyond = np.cos(np.minimum(np.arccos(np.clip(tilt, -1, 1)) + half_angles, np.pi)) > heights
     return np.where(smaller[:, None], centre, axes), np.where(smaller, angle, half_angles), beyond
 

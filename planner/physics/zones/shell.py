@@ -77,8 +77,8 @@ IGNORED_SHARE = 0.01  # of the threshold, for the bodies left out of the per-pat
 MODEL_SHARE = 1e-2  # of the threshold, for the dipole stand-ins' error at each patch centre
 FIRST_CAP_LEVEL = 2  # 320 caps of about 9 degrees to begin with (at 18, four in five failed)
 LAST_CAP_LEVEL = 6
-FACE_RING_RATIO = 1.15  # radial cells of the face patches, as a ratio of distances from c
-FACE_SECTORS = 16
+FACE_RING_RATIO = 1.075  # radial cells of the face patches, as a ratio of distances from c
+FACE_SECTORS = 32
 FACE_SPLITS = 6
 GROUP_SHARE = 0.6  # tasks needing at least this share of the most bodies any needs are proven together
 

@@ -19,8 +19,7 @@ from concurrent.futures import ProcessPoolExecutor, ThreadPoolExecutor
 import numpy as np
 
 from planner.physics.bodies import MagnetBody
-from planner.physics.zones.all_magnets import caps_first, faces_next, settle
-from planner.physics.zones.bounds import BodyTable
+from planner.physics.zones.all_magnets import caps_first, faces_next, settle, table_of
 
 __all__ = ["KeepOutJob", "keep_out_table", "available_workers"]
 
@@ -48,9 +47,9 @@ class KeepOutJob:
         self.workers = min(available_workers() if workers is None else int(workers), count)
         self._pool = self._rounds = self._outcome = None
         if self.workers > 1:
-            # The bodies' series tables are cached per shape: filling the caches here, before
-            # forking, lets every worker inherit them instead of computing them again.
-            BodyTable(self.bodies)
+            # The bodies' constants, built here before forking, are inherited by every worker
+            # instead of being computed again in each.
+            table_of(self.bodies)
             self._pool = ProcessPoolExecutor(max_workers=self.workers, mp_context=multiprocessing.get_context("fork"))
             self._rounds = ThreadPoolExecutor(max_workers=1)
             self._outcome = self._rounds.submit(self._run, self._pool.submit)

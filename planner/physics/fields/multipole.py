@@ -84,15 +84,19 @@ def zonal_moments(radius: float, inner_radius: float, half_height: float, order:
     True
     """
     moments, rounding = [], []
+    # the integrals over z and over the cross-section, by the powers they need
+    along = [2.0 * half_height ** (n + 1) / (n + 1) for n in range(order + 1)]
+    across = [math.pi * (radius ** (2 * k + 2) - inner_radius ** (2 * k + 2)) / (k + 1) for k in range(order // 2 + 1)]
     for degree in range(0, order + 1, 2):
         total = magnitude = 0.0
+        # l! / ((l - 2k)! k!^2), a multinomial coefficient: an exact integer at every step
+        multinomial = 1
         for k in range(degree // 2 + 1):
-            coefficient = ((-1) ** k * math.factorial(degree)
-                           / (4**k * math.factorial(k) ** 2 * math.factorial(degree - 2 * k)))
-            along = 2.0 * half_height ** (degree - 2 * k + 1) / (degree - 2 * k + 1)
-            across = math.pi * (radius ** (2 * k + 2) - inner_radius ** (2 * k + 2)) / (k + 1)
-            total += coefficient * along * across
-            magnitude += abs(coefficient * along * across)
+            coefficient = (-1) ** k * (multinomial / 4**k)  # rounded once, as from the factorials
+            term = coefficient * along[degree - 2 * k] * across[k]
+            total += term
+            magnitude += abs(term)
+            multinomial = multinomial * (degree - 2 * k) * (degree - 2 * k - 1) // (k + 1) ** 2
         moments.append(total / (4.0 * math.pi))
         rounding.append((degree + 2) * np.finfo(float).eps * magnitude / (4.0 * math.pi))
     if with_rounding:

@@ -331,7 +331,7 @@ def _add_far_dipoles_gathered(total, points, far, table):
             total[:, axis] += np.bincount(rows, dipoles[:, axis], minlength=len(points))
 
 
-def field_with_error(bodies, points, allowed_error, table=None):
+def field_with_error(bodies, points, allowed_error, table=None, distance=None):
     """Total |B| at points with a proven bound on its error.
 
     Parameters
@@ -340,11 +340,13 @@ def field_with_error(bodies, points, allowed_error, table=None):
     points : array (n, 3)
         [m].
     allowed_error : float or array (n,)
-        Largest error [T] the caller accepts (one value, or one per point); at each point the bodies with the smallest
-        dipole errors are taken as dipoles while their sum stays within it
-        (:func:`dipole_assignment`).
+        Largest error [T] the caller accepts (one value, or one per point); at each point
+        the bodies with the smallest dipole errors are taken as dipoles while their sum
+        stays within it (:func:`dipole_assignment`).
     table : BodyTable, optional
         Constants of ``bodies`` built beforehand (same result, less work).
+    distance : array (n, b), optional
+        The points' distances from the bodies' centres [m], if the caller has them.
 
     Returns
     -------
@@ -352,13 +354,13 @@ def field_with_error(bodies, points, allowed_error, table=None):
         |B| [T] of the model used and a bound on |true |B| - magnitude| [T]. Non-finite
         values (points on a body's edge) come back as +inf.
     """
-    vector, error = field_vector_with_error(bodies, points, allowed_error, table)
+    vector, error = field_vector_with_error(bodies, points, allowed_error, table, distance)
     magnitude = np.linalg.norm(vector, axis=1)
     magnitude[~np.isfinite(magnitude)] = np.inf
     return magnitude, error
 
 
-def field_vector_with_error(bodies, points, allowed_error, table=None):
+def field_vector_with_error(bodies, points, allowed_error, table=None, distance=None):
     """B (n, 3) [T] of the model of :func:`field_with_error` and the bound (n,) [T] on |B| error.
 
     The same model (exact near each body, dipoles where their remainder fits the allowed
@@ -366,7 +368,7 @@ def field_vector_with_error(bodies, points, allowed_error, table=None):
     """
     points = np.asarray(points, dtype=float).reshape(-1, 3)
     table = body_table(bodies, table)
-    far, error, _ = dipole_assignment(bodies, points, allowed_error, table)
+    far, error, _ = dipole_assignment(bodies, points, allowed_error, table, distance)
     return model_field(bodies, points, far, table), error
 
 

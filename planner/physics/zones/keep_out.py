@@ -259,15 +259,16 @@ def _finish(bodies, index, thresholds, starts, proven, table, hits):
     return _verify(bodies, index, thresholds, result, table=table) * (1 + 1e-9)  # rounding, outward
 
 
-def _in_own_cell(table, index, points):
+def _in_own_cell(table, index, points, distance=None):
     """Which points (n, 3) are at least as close to centre ``index`` as to any other (its cell).
 
     Points on a face of the cell count (up to the rounding of the distances, 1e-12).
+    ``distance``: the points' distances from all centres (n, b) [m], if the caller has them.
     """
-    distance = table.centre_distances(points)
-    own = distance[:, index].copy()
-    distance[:, index] = np.inf
-    return own <= np.min(distance, axis=1, initial=np.inf) * (1 + 1e-12)
+    if distance is None:
+        distance = table.centre_distances(points)
+    others = np.delete(distance, index, axis=1)
+    return distance[:, index] <= np.min(others, axis=1, initial=np.inf) * (1 + 1e-12)
 
 
 def _lower_values(bodies, index, axes, distance, allowed_error, table):
@@ -323,11 +324,12 @@ def _lower_at(bodies, index, points, allowed_error, table):
 
     ``allowed_error`` [T]: one value or one per point.
     """
-    keep = _in_own_cell(table, index, points)
+    distance = table.centre_distances(points)
+    keep = _in_own_cell(table, index, points, distance)
     lower = np.full(len(points), -np.inf)
     if keep.any():
         allowed = np.broadcast_to(np.asarray(allowed_error, dtype=float), (len(points),))[keep]
-        value, error = field_with_error(bodies, points[keep], allowed, table)
+        value, error = field_with_error(bodies, points[keep], allowed, table, distance[keep])
         lower[keep] = value - error
     return lower
 
@@ -580,9 +582,10 @@ def _verify(bodies, index, thresholds, radii, directions=120, table=None):
         shells = radii[pending, None] * np.array([1.0005, 1.02])
         points = (centre + shells[:, :, None, None] * unit[None, None]).reshape(-1, 3)
         owner = np.repeat(pending, 2 * directions)
-        keep = _in_own_cell(table, index, points)
+        distance = table.centre_distances(points)
+        keep = _in_own_cell(table, index, points, distance)
         points, owner = points[keep], owner[keep]
-        value, error = field_with_error(bodies, points, WITNESS_ERROR * thresholds[owner], table)
+        value, error = field_with_error(bodies, points, WITNESS_ERROR * thresholds[owner], table, distance[keep])
         reached = value + error >= thresholds[owner]
         if not reached.any():
             break

@@ -36,6 +36,7 @@ RELATIVE_TARGET = 0.045  # refine until the proven radius is within 4.5 % ...
 ABSOLUTE_TARGET = 4.5e-3  # ... or 4.5 mm of the farthest point found at the threshold [m]
 PROBED_CONES = 48
 RAYS = 128  # directions sampled for points at the thresholds
+FACE_PATHS = 12  # paths on each face of the cell, out from the centre's foot
 START_LEVEL = 2  # 320 cones of about 9 degrees to begin with
 MAX_LEVEL = 7
 MAX_CONES = 24000
@@ -236,9 +237,10 @@ def _starts_and_hits(bodies, index, thresholds, table):
     """Start radii (k,) [m] and the farthest points found at each threshold on the shared rays (k,) [m]."""
     starts = farthest_start_radii(bodies, index, thresholds, table)
     lowest = int(np.argmin(thresholds))
-    # rays sampled once, out to the lowest threshold's start
-    hits = _RaySamples(bodies, index, starts[lowest], thresholds[lowest], table).farthest(thresholds)
-    return starts, hits
+    # rays and face paths sampled once, out to the lowest threshold's start
+    hits = _ray_samples(bodies, index, starts[lowest], thresholds[lowest], table).farthest(thresholds)
+    faces = _face_samples(bodies, index, starts[lowest], thresholds[lowest], table).farthest(thresholds)
+    return starts, np.maximum(hits, faces)
 
 
 def _finish(bodies, index, thresholds, starts, proven, table, hits):
@@ -407,46 +409,80 @@ def _farthest_on_paths(reached, steps, group, best, check, distance, halvings=6)
     return best
 
 
-class _RaySamples:
-    """|B| lower values on fixed rays of one body, sampled once and shared by all thresholds.
+class _PathSamples:
+    """|B| lower values on fixed paths of one body's cell, sampled once and shared by all thresholds.
 
-    ``directions`` (n, 3) rays from the body's centre, sampled geometrically from its
-    bounding radius out to ``reach`` [m]; ``lower`` (n, k) the model value minus its proven
-    error (own cell only, -inf elsewhere), with the error allowance of the lowest threshold.
+    Path i runs from ``origins[i]`` along the unit ``directions[i]``; ``steps`` (n, k) [m] are
+    the samples' positions along it, and a point at position s lies hypot(``offsets[i]``, s)
+    from the body's centre (rays from the centre have offset 0; paths on a face of the cell
+    start at the centre's foot on it, half the gap away). ``lower`` (n, k): the model value
+    minus its proven error (own cell only, -inf elsewhere).
+
+    A sample is compared with every threshold, so it needs the precision of the lowest only
+    where its field may be that low: far from the magnet. Nearer, 1 % of the magnet's own
+    dipole scale k m / r^3 (at most its field, at least half of it) is as fine compared with
+    the thresholds the sample can decide, and lets the neighbours be taken as dipoles there.
+    Any allowance is sound: it is subtracted.
     """
 
-    def __init__(self, bodies, index, reach, lowest, table, count=RAYS, samples=24):
+    def __init__(self, bodies, index, table, origins, directions, steps, offsets, lowest):
         self.bodies, self.index, self.table = bodies, index, table
-        self.directions = fibonacci_directions(count)
-        floor = bodies[index].bounding_radius * (1 + 1e-6)
-        self.distance = np.broadcast_to(_geometric_radii(floor, max(reach, floor), samples), (count, samples))
-        # A sample is compared with every threshold, so it needs the precision of the lowest
-        # only where its field may be that low: far from the magnet. Nearer, 1 % of the
-        # magnet's own dipole scale k m / r^3 (at most its field, at least half of it) is as
-        # fine compared with the thresholds the sample can decide, and lets the neighbours
-        # be taken as dipoles there. Any allowance is sound: it is subtracted.
-        scale = bounds.K * float(table.moments[index]) / self.distance**3
-        allowed = WITNESS_ERROR * np.maximum(lowest, scale)
-        self.lower = _lower_values(bodies, index, self.directions, self.distance, allowed.ravel(), table)
+        self.origins, self.directions, self.steps, self.offsets = origins, directions, steps, offsets
+        distance = np.hypot(offsets[:, None], steps)
+        allowed = WITNESS_ERROR * np.maximum(lowest, bounds.K * float(table.moments[index]) / distance**3)
+        self.lower = self._lower(np.arange(len(origins))[:, None], steps, allowed).reshape(steps.shape)
+
+    def _lower(self, rows, s, allowed):
+        points = self.origins[rows] + s[..., None] * self.directions[rows]
+        return _lower_at(self.bodies, self.index, points.reshape(-1, 3), np.ravel(allowed), self.table)
 
     def farthest(self, thresholds):
-        """Farthest radius [m] found at each of ``thresholds`` (k,) [T] on these rays (0 if none).
+        """Farthest distance [m] from the centre found at each of ``thresholds`` (k,) [T] (0 if none).
 
-        The outermost sample at the threshold on each ray, then bisection towards the next
-        sample out, for the rays that can still beat the best so far; the bisections of all
-        thresholds share their field evaluations (with the error allowance of the lowest).
+        The outermost sample at the threshold on each path, then bisection towards the next
+        sample out, for the paths that can still beat the best so far; the bisections of all
+        thresholds share their field evaluations (each to 1 % of its own threshold).
         """
         thresholds = np.atleast_1d(np.asarray(thresholds, dtype=float))
-        count = len(self.directions)
+        count = len(self.origins)
+        if not count:
+            return np.zeros(len(thresholds))
         reached = np.concatenate([self.lower >= threshold for threshold in thresholds])  # threshold-major
         group = np.repeat(np.arange(len(thresholds)), count)
-        def check(rows, s):
-            lower = _lower_values(self.bodies, self.index, self.directions[rows % count], s[:, None],
-                                  WITNESS_ERROR * thresholds[group[rows]], self.table)[:, 0]
-            return lower >= thresholds[group[rows]]
 
-        return _farthest_on_paths(reached, np.tile(self.distance, (len(thresholds), 1)), group,
-                                  np.zeros(len(thresholds)), check, lambda rows, s: s)
+        def check(rows, s):
+            return self._lower(rows % count, s, WITNESS_ERROR * thresholds[group[rows]]) >= thresholds[group[rows]]
+
+        return _farthest_on_paths(reached, np.tile(self.steps, (len(thresholds), 1)), group,
+                                  np.zeros(len(thresholds)), check,
+                                  lambda rows, s: np.hypot(self.offsets[rows % count], s))
+
+
+def _ray_samples(bodies, index, reach, lowest, table, count=RAYS, samples=24):
+    """:class:`_PathSamples` on ``count`` rays from the centre, sampled geometrically from the
+    bounding radius out to ``reach`` [m]."""
+    directions = fibonacci_directions(count)
+    floor = bodies[index].bounding_radius * (1 + 1e-6)
+    steps = np.broadcast_to(_geometric_radii(floor, max(reach, floor), samples), (count, samples))
+    origins = np.broadcast_to(bodies[index].center, (count, 3))
+    return _PathSamples(bodies, index, table, origins, directions, steps, np.zeros(count), lowest)
+
+
+def _face_samples(bodies, index, reach, lowest, table, sectors=FACE_PATHS, samples=10):
+    """:class:`_PathSamples` on each face of the cell nearer than ``reach`` [m]: ``sectors`` paths
+    outward from the centre's foot on it, at distances from the centre geometric from half
+    the gap out to ``reach``. Where a neighbour's field spills over a face, the farthest
+    point at a threshold hugs the face, where the rays from the centre graze it."""
+    cell = shell.Cell(table.centres, index)
+    rows = np.flatnonzero(0.5 * cell.gaps < reach)
+    angle = 2 * np.pi * np.arange(sectors) / sectors
+    row, sector = np.repeat(rows, sectors), np.tile(angle, len(rows))
+    half = 0.5 * cell.gaps[row]
+    directions = np.cos(sector)[:, None] * cell.e1[row] + np.sin(sector)[:, None] * cell.e2[row]
+    floor = half * (1 + 1e-6)
+    distance = floor[:, None] * (reach / floor)[:, None] ** np.linspace(0.0, 1.0, samples)
+    steps = np.sqrt(np.maximum(distance**2 - half[:, None]**2, 0.0))
+    return _PathSamples(bodies, index, table, cell.feet[row], directions, steps, half, lowest)
 
 
 def _close_enough(proven, best):

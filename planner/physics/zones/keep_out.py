@@ -238,9 +238,9 @@ def _starts_and_hits(bodies, index, thresholds, table):
     starts = farthest_start_radii(bodies, index, thresholds, table)
     lowest = int(np.argmin(thresholds))
     # rays and face paths sampled once, out to the lowest threshold's start
-    hits = _ray_samples(bodies, index, starts[lowest], thresholds[lowest], table).farthest(thresholds)
-    faces = _face_samples(bodies, index, starts[lowest], thresholds[lowest], table).farthest(thresholds)
-    return starts, np.maximum(hits, faces)
+    rays = _ray_samples(bodies, index, starts[lowest], thresholds[lowest], table)
+    faces = _face_samples(bodies, index, starts[lowest], thresholds[lowest], table)
+    return starts, rays.joined(faces).farthest(thresholds)
 
 
 def _finish(bodies, index, thresholds, starts, proven, table, hits):
@@ -431,6 +431,25 @@ class _PathSamples:
         distance = np.hypot(offsets[:, None], steps)
         allowed = WITNESS_ERROR * np.maximum(lowest, bounds.K * float(table.moments[index]) / distance**3)
         self.lower = self._lower(np.arange(len(origins))[:, None], steps, allowed).reshape(steps.shape)
+
+    def joined(self, other):
+        """These paths and ``other``'s (same body) as one set, whose :meth:`farthest` bisects
+        both at once. The shorter rows are padded with copies of their last sample, never
+        reached (-inf)."""
+        width = max(self.steps.shape[1], other.steps.shape[1])
+
+        def padded(steps, lower):
+            extra = width - steps.shape[1]
+            return (np.concatenate([steps, np.repeat(steps[:, -1:], extra, axis=1)], axis=1),
+                    np.concatenate([lower, np.full((len(lower), extra), -np.inf)], axis=1))
+
+        both = object.__new__(_PathSamples)
+        both.bodies, both.index, both.table = self.bodies, self.index, self.table
+        both.origins, both.directions, both.offsets = (np.concatenate([a, b]) for a, b in (
+            (self.origins, other.origins), (self.directions, other.directions), (self.offsets, other.offsets)))
+        (steps, lower), (more_steps, more_lower) = padded(self.steps, self.lower), padded(other.steps, other.lower)
+        both.steps, both.lower = np.concatenate([steps, more_steps]), np.concatenate([lower, more_lower])
+        return both
 
     def _lower(self, rows, s, allowed):
         points = self.origins[rows] + s[..., None] * self.directions[rows]

@@ -211,11 +211,18 @@ def dipole_assignment(bodies, points, allowed_error, table=None, distance=None):
         # the running sum of the remainders stays within allowed_error (any choice is sound,
         # as the sum is the error bound returned; this one leaves the fewest bodies to
         # evaluate exactly, about half as many as an equal share per body).
-        order = np.argsort(remainder, axis=1, kind="stable")
-        running = np.cumsum(np.take_along_axis(remainder, order, axis=1), axis=1)
-        far = np.empty(remainder.shape, dtype=bool)
-        allowed = np.asarray(allowed_error, dtype=float)
-        np.put_along_axis(far, order, running <= (allowed[:, None] if allowed.ndim else allowed), axis=1)
+        # Where all the remainders together fit, every body is a dipole (the same choice,
+        # without sorting).
+        allowed = np.broadcast_to(np.asarray(allowed_error, dtype=float), (len(remainder),))
+        far = np.ones(remainder.shape, dtype=bool)
+        rows = np.flatnonzero(~(np.sum(remainder, axis=1) <= allowed))
+        if len(rows):
+            some = remainder[rows]
+            order = np.argsort(some, axis=1, kind="stable")
+            running = np.cumsum(np.take_along_axis(some, order, axis=1), axis=1)
+            chosen = np.empty(some.shape, dtype=bool)
+            np.put_along_axis(chosen, order, running <= allowed[rows, None], axis=1)
+            far[rows] = chosen
         error = np.sum(np.where(far, remainder, 0.0), axis=1)
         gradient_error = np.sum(np.where(far, gradient_remainder, 0.0), axis=1)
     return far, error, gradient_error

@@ -161,10 +161,8 @@ def local_model(bodies, points, allowed_error, table=None) -> LocalModel:
     field, jacobian = dipole_field_and_jacobian(bodies, points, far, table, distance)
     step = 1e-4 * np.maximum(np.min(np.maximum(geometry[1], geometry[0] - geometry[3]), axis=1), 1e-9)
     differenced = ~far.all(axis=1)  # points with an exact body, whose Jacobian is a forward difference
-    for i, body in enumerate(bodies):
-        near = np.flatnonzero(~far[:, i])
-        if not len(near):
-            continue
+    for i in np.flatnonzero(~far.all(axis=0)):  # the bodies exact at some point
+        body, near = bodies[i], np.flatnonzero(~far[:, i])
         h = step[near]
         stacked = np.concatenate([points[near]] + [points[near] + h[:, None] * e for e in np.eye(3)])
         values = exact_body_field(body, stacked).reshape(4, len(near), 3)

@@ -477,7 +477,7 @@ class _PathSamples:
                                   lambda rows, s: np.hypot(self.offsets[rows % count], s))
 
 
-def _ray_samples(bodies, index, reach, lowest, table, count=RAYS, samples=24):
+def _ray_samples(bodies, index, reach, lowest, table, count=RAYS, samples=16):
     """:class:`_PathSamples` on ``count`` rays from the centre, sampled geometrically from the
     bounding radius out to ``reach`` [m]."""
     directions = fibonacci_directions(count)
@@ -487,7 +487,7 @@ def _ray_samples(bodies, index, reach, lowest, table, count=RAYS, samples=24):
     return _PathSamples(bodies, index, table, origins, directions, steps, np.zeros(count), lowest)
 
 
-def _face_samples(bodies, index, reach, lowest, table, sectors=FACE_PATHS, samples=10):
+def _face_samples(bodies, index, reach, lowest, table, sectors=FACE_PATHS, samples=6):
     """:class:`_PathSamples` on each face of the cell nearer than ``reach`` [m]: ``sectors`` paths
     outward from the centre's foot on it, at distances from the centre geometric from half
     the gap out to ``reach``. Where a neighbour's field spills over a face, the farthest

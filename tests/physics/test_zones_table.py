@@ -57,7 +57,7 @@ def test_no_point_beyond_the_table_distances_reaches_the_threshold(make):
             assert abs(table[index, k] - alone[k]) <= max(0.05 * min(table[index, k], alone[k]), 5e-3)
 
 
-def test_a_grown_radius_sends_its_neighbours_back_to_the_face_between():
+def test_a_grown_radius_sends_its_neighbours_back_to_the_face_between(monkeypatch):
     # Bookkeeping of the settling step: if magnet 0's radius at 6 mT grows from R to R' after
     # the first round, each neighbour with a smaller radius must cover the face towards
     # magnet 0 between max(its radius, R) and R' (or its start radius), and nothing else; a
@@ -74,11 +74,8 @@ def test_a_grown_radius_sends_its_neighbours_back_to_the_face_between():
         calls.append((index, tasks, phases))
         return original(bodies, index, tasks, table, phases)
 
-    all_magnets.shell.prove_all_beyond = recording
-    try:
-        distances = all_magnets.settle(bodies, thresholds, first, second)
-    finally:
-        all_magnets.shell.prove_all_beyond = original
+    monkeypatch.setattr(all_magnets.shell, "prove_all_beyond", recording)
+    distances = all_magnets.settle(bodies, thresholds, first, second)
     assert [index for index, _, _ in calls] == [1, 2]
     for index, ((low, high, threshold, limits),), phases in calls:
         assert second[index].shell[0] and second[index].proven[0] < first[0].proven[0]
@@ -89,7 +86,7 @@ def test_a_grown_radius_sends_its_neighbours_back_to_the_face_between():
     assert np.array_equal(distances, np.array([proof.distances for proof in second]))
 
 
-def test_a_face_that_fails_between_the_radii_makes_that_magnet_try_farther_out():
+def test_a_face_that_fails_between_the_radii_makes_that_magnet_try_farther_out(monkeypatch):
     # If the face towards a grown neighbour cannot be proven, the magnet with the smaller
     # radius searches again and proves a radius beyond its first one (caps and faces); its
     # distance is then checked by brute force like any other.
@@ -108,11 +105,8 @@ def test_a_face_that_fails_between_the_radii_makes_that_magnet_try_farther_out()
             return [all_magnets.shell.ShellOutcome(False, np.empty((0, 3)), point[None])]
         return original(bodies, index, tasks, table, phases)
 
-    all_magnets.shell.prove_all_beyond = failing_once
-    try:
-        distances = all_magnets.settle(bodies, thresholds, first, second)
-    finally:
-        all_magnets.shell.prove_all_beyond = original
+    monkeypatch.setattr(all_magnets.shell, "prove_all_beyond", failing_once)
+    distances = all_magnets.settle(bodies, thresholds, first, second)
     assert failed == [2]
     assert distances[2, 0] > second[2].distances[0]
     assert largest_field_beyond(bodies, 2, distances[2, 0], RNG) < thresholds[0]

@@ -106,12 +106,13 @@ def dipole_field_and_jacobian(bodies, points, far, table=None, distance=None):
     offset = points[:, None, :] - table.centres[None]
     if distance is None:
         distance = np.sqrt(np.sum(offset**2, axis=2))
-    distance = np.where(far, distance, 1.0)
-    unit = offset / distance[..., None]
+    inverse = np.where(far, 1.0 / np.where(far, distance, 1.0), 0.0)  # 0 for the pairs left out
+    unit = offset * inverse[..., None]
     along = np.einsum("nbk,bk->nb", unit, moments)
-    weight = np.where(far, K / distance**3, 0.0)
-    field = np.einsum("nb,nbl->nl", weight, 3 * unit * along[..., None] - moments[None])
-    scaled = 3 * weight / distance
+    weight = K * inverse**3
+    # sum_b w (3 (m.u) u - m), without the (n, b, 3) term
+    field = 3 * np.matmul((weight * along)[:, None, :], unit)[:, 0] - weight @ moments
+    scaled = 3 * weight * inverse
     along_scaled = scaled * along
     outer = np.matmul(np.swapaxes(along_scaled[..., None] * unit, 1, 2), unit)  # sum_b c (m.u) u_j u_l
     mixed = np.matmul(np.swapaxes(scaled[..., None] * moments[None], 1, 2), unit)  # sum_b c m_j u_l

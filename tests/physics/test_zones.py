@@ -108,6 +108,23 @@ def test_two_magnets_total_field_never_short_in_either_cell():
         assert largest_field_beyond(bodies, index, found, RNG) < 1e-3
 
 
+@pytest.mark.parametrize("index, threshold", [(1, 0.5e-3), (1, 2e-3), (2, 0.5e-3), (2, 2e-3)])
+def test_points_found_at_the_threshold_reach_into_where_a_neighbour_spills_over(index, threshold):
+    # Brute force (planner.physics.fields sampled on 20 000 directions, then bisected): in
+    # the cells of the block and the weak disc of the three-magnet bench the strong disc's
+    # field crosses the face between them, and the farthest point at the threshold hugs that
+    # face. The search for points at the threshold (rays from the centre and paths on the
+    # cell's faces) finds it to within 2 %, each point a proven lower value.
+    from planner.physics.zones import bounds
+    from planner.physics.zones.keep_out import _starts_and_hits
+    from tests.physics.test_zones_shell import bench
+
+    bodies = bench()
+    starts, hits = _starts_and_hits(bodies, index, np.array([threshold]), bounds.BodyTable(bodies))
+    found = farthest_found(bodies, index, threshold, float(starts[0]), RNG, directions=20000)
+    assert 0.98 * found <= hits[0] <= starts[0]
+
+
 @pytest.mark.parametrize("diameter, height, remanence", [
     (5e-3, 5e-3, 1.17),  # smallest consumer disc, N35 (Br 1.17-1.22 T, standards.md)
     (25e-3, 10e-3, 1.48),  # largest, N52 (Br 1.43-1.48 T)

@@ -51,6 +51,10 @@ class KeepOutJob:
             # instead of being computed again in each.
             table_of(self.bodies)
             self._pool = ProcessPoolExecutor(max_workers=self.workers, mp_context=multiprocessing.get_context("fork"))
+            # The first task forks every worker at once, here in the calling thread, before
+            # the thread that hands out the rounds exists (forking a process that runs
+            # several threads can leave a lock held in the child).
+            self._pool.submit(int)
             self._rounds = ThreadPoolExecutor(max_workers=1)
             self._outcome = self._rounds.submit(self._run, self._pool.submit)
 

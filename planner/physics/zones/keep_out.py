@@ -238,9 +238,8 @@ def _starts_and_hits(bodies, index, thresholds, table):
     starts = farthest_start_radii(bodies, index, thresholds, table)
     lowest = int(np.argmin(thresholds))
     # rays and face paths sampled once, out to the lowest threshold's start
-    rays = _ray_samples(bodies, index, starts[lowest], thresholds[lowest], table)
-    faces = _face_samples(bodies, index, starts[lowest], thresholds[lowest], table)
-    return starts, rays.joined(faces).farthest(thresholds)
+    paths = [_ray_paths(bodies, index, starts[lowest]), _face_paths(table, index, starts[lowest])]
+    return starts, _PathSamples(bodies, index, table, paths, thresholds[lowest]).farthest(thresholds)
 
 
 def _finish(bodies, index, thresholds, starts, proven, table, hits):
@@ -418,11 +417,14 @@ def _farthest_on_paths(reached, steps, group, best, check, distance, rounds=3, p
 class _PathSamples:
     """|B| lower values on fixed paths of one body's cell, sampled once and shared by all thresholds.
 
-    Path i runs from ``origins[i]`` along the unit ``directions[i]``; ``steps`` (n, k) [m] are
-    the samples' positions along it, and a point at position s lies hypot(``offsets[i]``, s)
-    from the body's centre (rays from the centre have offset 0; paths on a face of the cell
-    start at the centre's foot on it, half the gap away). ``lower`` (n, k): the model value
-    minus its proven error (own cell only, -inf elsewhere).
+    ``path_sets``: tuples (origins, directions, steps, offsets), each path set with its own
+    number of samples. Path i runs from ``origins[i]`` along the unit ``directions[i]``;
+    ``steps`` (n, k) [m] are the samples' positions along it, and a point at position s lies
+    hypot(``offsets[i]``, s) from the body's centre (rays from the centre have offset 0;
+    paths on a face of the cell start at the centre's foot on it, half the gap away). The
+    sets are joined into one array of paths, the shorter rows padded with copies of their
+    last sample that never count as reached. ``lower`` (n, k): the model value minus its
+    proven error (own cell only, -inf elsewhere), all samples in one evaluation.
 
     A sample is compared with every threshold, so it needs the precision of the lowest only
     where its field may be that low: far from the magnet. Nearer, 1 % of the magnet's own
@@ -431,31 +433,22 @@ class _PathSamples:
     Any allowance is sound: it is subtracted.
     """
 
-    def __init__(self, bodies, index, table, origins, directions, steps, offsets, lowest):
+    def __init__(self, bodies, index, table, path_sets, lowest):
         self.bodies, self.index, self.table = bodies, index, table
-        self.origins, self.directions, self.steps, self.offsets = origins, directions, steps, offsets
-        distance = np.hypot(offsets[:, None], steps)
+        width = max(steps.shape[1] for _, _, steps, _ in path_sets)
+        padding = [width - steps.shape[1] for _, _, steps, _ in path_sets]
+        self.origins = np.concatenate([np.reshape(origins, (-1, 3)) for origins, _, _, _ in path_sets])
+        self.directions = np.concatenate([directions for _, directions, _, _ in path_sets])
+        self.offsets = np.concatenate([offsets for _, _, _, offsets in path_sets])
+        self.steps = np.concatenate([np.concatenate([steps, np.repeat(steps[:, -1:], extra, axis=1)], axis=1)
+                                     for (_, _, steps, _), extra in zip(path_sets, padding)])
+        valid = np.concatenate([np.arange(width)[None, :] < np.full((len(steps), 1), steps.shape[1])
+                                for _, _, steps, _ in path_sets])
+        distance = np.hypot(self.offsets[:, None], self.steps)
         allowed = WITNESS_ERROR * np.maximum(lowest, bounds.K * float(table.moments[index]) / distance**3)
-        self.lower = self._lower(np.arange(len(origins))[:, None], steps, allowed).reshape(steps.shape)
-
-    def joined(self, other):
-        """These paths and ``other``'s (same body) as one set, whose :meth:`farthest` bisects
-        both at once. The shorter rows are padded with copies of their last sample, never
-        reached (-inf)."""
-        width = max(self.steps.shape[1], other.steps.shape[1])
-
-        def padded(steps, lower):
-            extra = width - steps.shape[1]
-            return (np.concatenate([steps, np.repeat(steps[:, -1:], extra, axis=1)], axis=1),
-                    np.concatenate([lower, np.full((len(lower), extra), -np.inf)], axis=1))
-
-        both = object.__new__(_PathSamples)
-        both.bodies, both.index, both.table = self.bodies, self.index, self.table
-        both.origins, both.directions, both.offsets = (np.concatenate([a, b]) for a, b in (
-            (self.origins, other.origins), (self.directions, other.directions), (self.offsets, other.offsets)))
-        (steps, lower), (more_steps, more_lower) = padded(self.steps, self.lower), padded(other.steps, other.lower)
-        both.steps, both.lower = np.concatenate([steps, more_steps]), np.concatenate([lower, more_lower])
-        return both
+        self.lower = np.full(self.steps.shape, -np.inf)
+        rows, columns = np.nonzero(valid)
+        self.lower[rows, columns] = self._lower(rows, self.steps[rows, columns], allowed[rows, columns])
 
     def _lower(self, rows, s, allowed):
         points = self.origins[rows] + s[..., None] * self.directions[rows]
@@ -464,9 +457,10 @@ class _PathSamples:
     def farthest(self, thresholds):
         """Farthest distance [m] from the centre found at each of ``thresholds`` (k,) [T] (0 if none).
 
-        The outermost sample at the threshold on each path, then bisection towards the next
-        sample out, for the paths that can still beat the best so far; the bisections of all
-        thresholds share their field evaluations (each to 1 % of its own threshold).
+        The outermost sample at the threshold on each path, then a search towards the next
+        sample out (:func:`_farthest_on_paths`), for the paths that can still beat the best
+        so far; the searches of all thresholds share their field evaluations (each to 1 % of
+        its own threshold).
         """
         thresholds = np.atleast_1d(np.asarray(thresholds, dtype=float))
         count = len(self.origins)
@@ -483,21 +477,21 @@ class _PathSamples:
                                   lambda rows, s: np.hypot(self.offsets[rows % count], s))
 
 
-def _ray_samples(bodies, index, reach, lowest, table, count=RAYS, samples=16):
-    """:class:`_PathSamples` on ``count`` rays from the centre, sampled geometrically from the
-    bounding radius out to ``reach`` [m]."""
+def _ray_paths(bodies, index, reach, count=RAYS, samples=16):
+    """``count`` rays from the centre, sampled geometrically from the bounding radius out to
+    ``reach`` [m]: (origins, directions, steps, offsets) for :class:`_PathSamples`."""
     directions = fibonacci_directions(count)
     floor = bodies[index].bounding_radius * (1 + 1e-6)
     steps = np.broadcast_to(_geometric_radii(floor, max(reach, floor), samples), (count, samples))
-    origins = np.broadcast_to(bodies[index].center, (count, 3))
-    return _PathSamples(bodies, index, table, origins, directions, steps, np.zeros(count), lowest)
+    return np.broadcast_to(bodies[index].center, (count, 3)), directions, steps, np.zeros(count)
 
 
-def _face_samples(bodies, index, reach, lowest, table, sectors=FACE_PATHS, samples=6):
-    """:class:`_PathSamples` on each face of the cell nearer than ``reach`` [m]: ``sectors`` paths
-    outward from the centre's foot on it, at distances from the centre geometric from half
-    the gap out to ``reach``. Where a neighbour's field spills over a face, the farthest
-    point at a threshold hugs the face, where the rays from the centre graze it."""
+def _face_paths(table, index, reach, sectors=FACE_PATHS, samples=6):
+    """Paths on each face of the cell nearer than ``reach`` [m], for :class:`_PathSamples`:
+    ``sectors`` of them outward from the centre's foot on it, at distances from the centre
+    geometric from half the gap out to ``reach``. Where a neighbour's field spills over a
+    face, the farthest point at a threshold hugs the face, where the rays from the centre
+    graze it."""
     cell = shell.Cell(table.centres, index)
     rows = np.flatnonzero(0.5 * cell.gaps < reach)
     angle = 2 * np.pi * np.arange(sectors) / sectors
@@ -507,7 +501,7 @@ def _face_samples(bodies, index, reach, lowest, table, sectors=FACE_PATHS, sampl
     floor = half * (1 + 1e-6)
     distance = floor[:, None] * (reach / floor)[:, None] ** np.linspace(0.0, 1.0, samples)
     steps = np.sqrt(np.maximum(distance**2 - half[:, None]**2, 0.0))
-    return _PathSamples(bodies, index, table, cell.feet[row], directions, steps, half, lowest)
+    return cell.feet[row], directions, steps, half
 
 
 def _close_enough(proven, best):

@@ -119,14 +119,12 @@ def test_caps_proven_with_the_own_dipole_hold_under_brute_force():
     outcome_caps = []
     model = local_model(bodies, points[inside], 2e-3 * threshold, table)
     from planner.physics.zones.bounds import derivative_bounds
-    from planner.physics.zones.certify import dipole_field_and_jacobian
     chord = 2 * radius * np.sin(half_angles[inside] / 2)
     _, second = derivative_bounds(model.geometry, chord, (1, 2), per_body=True)
     own = table.subset([0])
-    _, own_jacobian = dipole_field_and_jacobian([bodies[0]], points[inside], np.ones((inside.sum(), 1), bool), own)
     rest = second[:, 1] + dipole_remainder(own, (radius - chord)[:, None], 2)[:, 0]
-    holds = shell._dipole_cap_holds(model, own_jacobian, table.vectors[0], radius, axes[inside],
-                                    half_angles[inside], rest, threshold)
+    holds = shell._dipole_cap_holds(model, table.vectors[0], radius, axes[inside], half_angles[inside], rest,
+                                    threshold)
     assert 0.2 < holds.mean() < 0.9
     for axis, half in zip(axes[inside][holds], half_angles[inside][holds]):
         turn = random_directions(300)
@@ -358,3 +356,20 @@ def test_clipped_caps_hold_the_part_of_each_cap_inside_the_face():
     assert shrunk.sum() > count / 10
     assert np.all(new_half_angles <= half_angles)
     assert not np.any(shrunk & (heights < 0))
+
+
+def test_dipole_jacobian_on_a_sphere_is_the_derivative_of_the_dipole_field():
+    # Independent computation: central differences (step 1e-6 R) of the point-dipole field of
+    # planner.physics.fields.sphere (Jackson eq. 5.56) at c + R u.
+    from planner.physics.fields.sphere import dipole_field
+
+    moment, radius = np.array([0.3, -1.1, 0.7]), 0.07
+    axes = random_directions(20)
+    jacobian = shell.dipole_jacobian_on_sphere(moment, radius, axes)
+    h = 1e-6 * radius
+    for axis, ours in zip(axes, jacobian):
+        point = radius * axis
+        numeric = np.array([(dipole_field((point + h * e)[None], moment, np.zeros(3))
+                             - dipole_field((point - h * e)[None], moment, np.zeros(3)))[0] / (2 * h)
+                            for e in np.eye(3)])  # row j: dB/dx_j
+        assert np.allclose(ours, numeric, rtol=1e-6, atol=1e-9 * np.abs(numeric).max())

@@ -68,10 +68,11 @@ import numpy as np
 
 from planner.physics.bodies import plane_basis
 from planner.physics.zones.bounds import K, BodyTable, cell_field_bounds, derivative_bounds, dipole_remainder
-from planner.physics.zones.certify import LocalModel, dipole_field_and_jacobian, local_model, patch_below
+from planner.physics.zones.certify import LocalModel, local_model, patch_below
 from planner.physics.zones.sampling import child_indices, icosahedron_cones
 
-__all__ = ["ShellOutcome", "source_free", "clipped_caps", "prove_beyond", "prove_all_beyond"]
+__all__ = ["ShellOutcome", "source_free", "clipped_caps", "dipole_jacobian_on_sphere", "prove_beyond",
+           "prove_all_beyond"]
 
 IGNORED_SHARE = 0.01  # of the threshold, for the bodies left out of the per-patch work
 MODEL_SHARE = 1e-2  # of the threshold, for the dipole stand-ins' error at each patch centre
@@ -190,11 +191,21 @@ def source_free(table: BodyTable, index: int, radius: float) -> bool:
     return bool(reach[index] < radius and np.all(clear[others]))
 
 
-def _dipole_cap_holds(model: LocalModel, own_jacobian, moment, radius, axes, half_angles, rest_second, threshold):
+def dipole_jacobian_on_sphere(moment, radius, axes):
+    """Jacobian (n, 3, 3) [T/m], [j, l] = dB_l/dx_j, of a point dipole ``moment`` (3,) [A m^2]
+    at c + R u for the unit ``axes`` u (n, 3) and ``radius`` R [m] (one value or (n,)):
+    3 k / R^4 [(m.u)(delta_jl - 5 u_j u_l) + m_j u_l + m_l u_j] (derivative of Jackson eq. 5.56)."""
+    radius = np.broadcast_to(np.asarray(radius, dtype=float), (len(axes),))
+    along = axes @ moment
+    return (3 * K / radius**4)[:, None, None] * (
+        along[:, None, None] * (np.eye(3) - 5 * axes[:, :, None] * axes[:, None, :])
+        + moment[None, :, None] * axes[:, None, :] + axes[:, :, None] * moment[None, None, :])
+
+
+def _dipole_cap_holds(model: LocalModel, moment, radius, axes, half_angles, rest_second, threshold):
     """The cap bound of the module docstring, with the magnet's own dipole taken exactly.
 
-    ``own_jacobian`` (n, 3, 3): the own point dipole's at the cap centres; ``moment`` (3,)
-    [A m^2]; ``radius`` [m] and ``threshold`` [T]: one value or one per cap; ``rest_second``
+    ``moment`` (3,) [A m^2]; ``radius`` [m] and ``threshold`` [T]: one value or one per cap; ``rest_second``
     (n,) [T/m^2]: a bound on ||D^2 V|| over each cap's ball (the own magnet minus its
     dipole, and the other bodies). Returns (n,) bool.
     """
@@ -204,8 +215,8 @@ def _dipole_cap_holds(model: LocalModel, own_jacobian, moment, radius, axes, hal
     rho = radius * chord
     cosine, sine = np.cos(half_angles), np.sin(half_angles)
     scale = 3 * K / radius**3
-    rest_jacobian = model.jacobian - own_jacobian
     along_moment = n @ moment
+    rest_jacobian = model.jacobian - dipole_jacobian_on_sphere(moment, radius, n)
     a = (scale[:, None, None] * (n[:, :, None] * moment[None, None, :] + along_moment[:, None, None] * np.eye(3))
          + radius[:, None, None] * np.swapaxes(rest_jacobian, 1, 2))
     p0 = model.field
@@ -465,11 +476,9 @@ def _prove_tasks(members, part, cell, work):
         holds = np.zeros(len(points), bool)
         if cap.any():
             rows = np.flatnonzero(cap)
-            _, own_jacobian = dipole_field_and_jacobian([members[0]], points[rows], np.ones((len(rows), 1), bool),
-                                                         own)
             rest_second = (np.sum(second_each[rows, 1:], axis=1)
                            + dipole_remainder(own, (radius[rows] - chord[rows])[:, None], 2)[:, 0])
-            holds[rows] = _dipole_cap_holds(model.take(rows), own_jacobian, part.vectors[0], radius[rows],
+            holds[rows] = _dipole_cap_holds(model.take(rows), part.vectors[0], radius[rows],
                                             axes[rows], batch["half_angles"][rows], rest_second,
                                             proof_threshold[rows])
         rows = np.flatnonzero(~holds)  # faces, and caps beside the magnet: the general bound

@@ -7,6 +7,8 @@
   height, start and end angle in degrees), a cuboid by its edge lengths, a sphere by its
   diameter. Our MagnetBody holds J in the global frame, so it is turned into the body frame
   before it is handed over.
+* :func:`tilted_magnet`: one cylinder, ring, block or cube of fixed size, tilt and
+  polarization, for the checks of bounds against finite differences of the exact field.
 * :func:`sphere`: a uniformly magnetized sphere, whose exterior field is exactly that of a
   point dipole of moment J V / mu0 (Jackson, Classical Electrodynamics, 3rd ed. (1999),
   section 5.10, eq. 5.56): the body of the dipole checks of the zone tests.
@@ -25,6 +27,19 @@ from planner.physics.fields import field_of_body
 def sphere(centre, polarization, diameter=0.01):
     """A sphere of ``diameter`` [m] at ``centre`` [m], uniformly polarized ``polarization`` [T]."""
     return MagnetBody("sphere", centre, np.eye(3), polarization, diameter=diameter)
+
+
+def tilted_magnet(shape):
+    """A ``shape`` ("cylinder", "ring", "block" or "cube") at the origin, tilted, with J = (0.4, -0.3, 1.1) T:
+    30 mm across and 6 mm high (bore 12 mm), a 30 x 20 x 8 mm block or a 20 mm cube."""
+    from planner.physics.bodies import rotation_from_axis
+
+    rotation, polarization = rotation_from_axis([0.3, -0.2, 1.0]), [0.4, -0.3, 1.1]
+    if shape in ("block", "cube"):
+        return MagnetBody("block", [0, 0, 0], rotation, polarization,
+                          size=[0.03, 0.02, 0.008] if shape == "block" else [0.02, 0.02, 0.02])
+    return MagnetBody(shape, [0, 0, 0], rotation, polarization, diameter=0.03, height=0.006,
+                      inner_diameter=0.012 if shape == "ring" else 0.0)
 
 
 def magpylib_source(body, magpylib=None):

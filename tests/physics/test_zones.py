@@ -244,14 +244,9 @@ def test_series_derivative_bounds_are_close_to_the_true_slope(shape):
     # radii, where the multipole-series form applies; the bound holds and is within a small
     # factor of the true operator norm (the distance-only form was about 20x above it here)
     from planner.physics.zones.bounds import BodyTable, _ball_geometry, derivative_bounds
+    from tests.physics.references import tilted_magnet
 
-    rotation = rotation_from_axis([0.3, -0.2, 1.0])
-    if shape in ("block", "cube"):
-        body = MagnetBody("block", [0, 0, 0], rotation, [0.4, -0.3, 1.1],
-                          size=[0.03, 0.02, 0.008] if shape == "block" else [0.02, 0.02, 0.02])
-    else:
-        body = MagnetBody(shape, [0, 0, 0], rotation, [0.4, -0.3, 1.1],
-                          diameter=0.03, height=0.006, inner_diameter=0.012 if shape == "ring" else 0.0)
+    body = tilted_magnet(shape)
     unit = RNG.normal(size=(300, 3))
     unit /= np.linalg.norm(unit, axis=1)[:, None]
     points = unit * (body.bounding_radius / RNG.uniform(0.5, 0.85, 300))[:, None]

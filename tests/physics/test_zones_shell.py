@@ -162,14 +162,10 @@ def test_derivatives_of_the_dipole_remainder_stay_within_their_bound(shape):
     # Independent check: the exact field minus the point dipole, and its finite differences
     # along random directions (a lower estimate of each norm), at 1.25 to 6 bounding radii
     # (the blocks' multipole series holds from 1.18).
-    rotation = rotation_from_axis([0.3, -0.2, 1.0])
-    if shape in ("block", "cube"):
-        body = MagnetBody("block", [0, 0, 0], rotation, [0.4, -0.3, 1.1],
-                          size=[0.03, 0.02, 0.008] if shape == "block" else [0.02, 0.02, 0.02])
-    else:
-        body = MagnetBody(shape, [0, 0, 0], rotation, [0.4, -0.3, 1.1], diameter=0.03, height=0.006,
-                          inner_diameter=0.012 if shape == "ring" else 0.0)
     from planner.physics.fields.sphere import dipole_field
+    from tests.physics.references import tilted_magnet
+
+    body = tilted_magnet(shape)
 
     def remainder(at):
         return field_of_bodies([body], at) - dipole_field(at, body.moment, body.center)

@@ -195,12 +195,11 @@ def dipole_assignment(bodies, points, allowed_error, table=None, distance=None):
     """Which bodies may be taken as point dipoles at each point, and what that costs.
 
     Returns ``far`` (n, b) bool, the summed field error bound (n,) [T] and the summed
-    gradient error bound (n,) [T/m] of the dipole stand-ins (:func:`dipole_remainders`, orders 0, 1).
-    ``allowed_error`` [T] is one value or one per point (n,).
-    At each point the bodies with the
-    smallest remainders are dipoles as long as their summed field error stays within
-    ``allowed_error``. ``table`` (a :class:`BodyTable`
-    of ``bodies``) and ``distance`` (the centre distances (n, b)) may be passed to save work.
+    gradient error bound (n,) [T/m] of the dipole stand-ins (:func:`dipole_remainders`, orders
+    0, 1). At each point the bodies with the smallest remainders are dipoles as long as their
+    summed field error stays within ``allowed_error`` [T] (one value or one per point (n,)).
+    ``table`` (a :class:`BodyTable` of ``bodies``) and ``distance`` (the centre distances
+    (n, b)) may be passed to save work.
     """
     table = body_table(bodies, table)
     if distance is None:
@@ -246,8 +245,7 @@ def dipole_remainder(table, distance, order):
 def dipole_remainders(table, distance, orders):
     """:func:`dipole_remainder` for each of ``orders``, sharing the distances' powers and the
     series look-up between them."""
-    moments, reach, square = table.moments, table.reach, table.square
-    shift = np.where(square == 0, 0.0, reach)
+    moments, reach, square, shift = table.moments, table.reach, table.square, table.shift
     series = table.series
     results = []
     with np.errstate(invalid="ignore", divide="ignore", over="ignore"):

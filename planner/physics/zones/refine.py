@@ -113,7 +113,8 @@ def interpolation_remainder(bodies, centres, width, depth, table=None):
     bounding radius (0 for a sphere, whose outside field is its centre dipole's). Valid
     where every ball stays outside every bounding sphere (a sphere: outside the body);
     +inf elsewhere. Computed by :func:`planner.physics.zones.bounds.derivative_bound` of
-    order 2, which takes the surface-charge form instead where that is smaller.
+    order 2, which takes the surface-charge or multipole-series form instead where that is
+    smaller.
 
     References
     ----------
@@ -133,8 +134,8 @@ def interpolation_remainder(bodies, centres, width, depth, table=None):
     width, depth = np.asarray(width, dtype=float), np.asarray(depth, dtype=float)
     table = body_table(bodies, table)
     spread = 0.5 * np.hypot(width, depth)
-    # The shared bound on ||D^2 B|| (its volume form is the sum above; the surface form can
-    # only lower it); solid distances taken as d - a, which needs no per-cell geometry.
+    # The shared bound on ||D^2 B|| (its volume form is the sum above; the surface and series
+    # forms can only lower it).
     geometry = _ball_geometry(bodies, centres, table)
     return (width**2 + depth**2) / 8 * derivative_bound(geometry, spread, 2)
 

@@ -92,21 +92,26 @@ def _split_far(geometry, widest, centre_bounds, ratio=10.0):
 
 
 def dipole_field_and_jacobian(bodies, points, far, table=None, distance=None):
-    """Summed point-dipole field (n, 3) and Jacobian (n, 3, 3) [j, l] = dB_l/dx_j of the far pairs.
-
-    dB_l/dx_j = 3 k / r^4 [(m.u)(delta_jl - 5 u_j u_l) + m_j u_l + m_l u_j] (derivative of
-    Jackson eq. 5.56).
-    """
-    field = np.zeros((len(points), 3))
-    jacobian = np.zeros((len(points), 3, 3))
+    """Summed point-dipole field (n, 3) and Jacobian (n, 3, 3) [j, l] = dB_l/dx_j of the far pairs
+    (:func:`dipole_sums` of the bodies' moments at their centres)."""
     if not far.any():
-        return field, jacobian
+        return np.zeros((len(points), 3)), np.zeros((len(points), 3, 3))
     table = body_table(bodies, table)
-    moments = table.vectors
     offset = points[:, None, :] - table.centres[None]
     if distance is None:
         distance = np.sqrt(np.sum(offset**2, axis=2))
     inverse = np.where(far, 1.0 / np.where(far, distance, 1.0), 0.0)  # 0 for the pairs left out
+    return dipole_sums(offset, inverse, table.vectors)
+
+
+def dipole_sums(offset, inverse, moments):
+    """Field (n, 3) [T] and Jacobian (n, 3, 3) [T/m], [j, l] = dB_l/dx_j, summed over point dipoles.
+
+    ``moments`` (b, 3) [A m^2] seen at ``offset`` (n, b, 3) [m] from each, with the reciprocal
+    distances ``inverse`` (n, b) [1/m] (0 leaves a pair out). B = k (3 (m.u) u - m) / r^3 and
+    dB_l/dx_j = 3 k / r^4 [(m.u)(delta_jl - 5 u_j u_l) + m_j u_l + m_l u_j] (Jackson eq. 5.56
+    and its derivative).
+    """
     unit = offset * inverse[..., None]
     along = np.einsum("nbk,bk->nb", unit, moments)
     weight = K * inverse**3

@@ -68,7 +68,7 @@ import numpy as np
 
 from planner.physics.bodies import plane_basis
 from planner.physics.zones.bounds import K, BodyTable, cell_field_bounds, derivative_bounds, dipole_remainder
-from planner.physics.zones.certify import LocalModel, local_model, patch_below
+from planner.physics.zones.certify import LocalModel, dipole_sums, local_model, patch_below
 from planner.physics.zones.sampling import child_indices, icosahedron_cones
 
 __all__ = ["ShellOutcome", "source_free", "clipped_caps", "dipole_jacobian_on_sphere", "prove_beyond",
@@ -193,13 +193,11 @@ def source_free(table: BodyTable, index: int, radius: float) -> bool:
 
 def dipole_jacobian_on_sphere(moment, radius, axes):
     """Jacobian (n, 3, 3) [T/m], [j, l] = dB_l/dx_j, of a point dipole ``moment`` (3,) [A m^2]
-    at c + R u for the unit ``axes`` u (n, 3) and ``radius`` R [m] (one value or (n,)):
-    3 k / R^4 [(m.u)(delta_jl - 5 u_j u_l) + m_j u_l + m_l u_j] (derivative of Jackson eq. 5.56)."""
+    at c + R u for the unit ``axes`` u (n, 3) and ``radius`` R [m] (one value or (n,))
+    (:func:`~planner.physics.zones.certify.dipole_sums` with the offsets and distances known)."""
     radius = np.broadcast_to(np.asarray(radius, dtype=float), (len(axes),))
-    along = axes @ moment
-    return (3 * K / radius**4)[:, None, None] * (
-        along[:, None, None] * (np.eye(3) - 5 * axes[:, :, None] * axes[:, None, :])
-        + moment[None, :, None] * axes[:, None, :] + axes[:, :, None] * moment[None, None, :])
+    return dipole_sums(radius[:, None, None] * axes[:, None, :], 1.0 / radius[:, None],
+                       np.reshape(moment, (1, 3)))[1]
 
 
 def _dipole_cap_holds(model: LocalModel, moment, radius, axes, half_angles, rest_second, threshold):

@@ -272,52 +272,33 @@ def _in_own_cell(table, index, points, distance=None):
     return distance[:, index] <= np.min(others, axis=1, initial=np.inf) * (1 + 1e-12)
 
 
-def _lower_values(bodies, index, axes, distance, allowed_error, table):
-    """|B| minus its proven error [T] at ``distance`` (n, k) [m] along ``axes`` (n, 3) from
-    body ``index``'s centre, with the far-field error ``allowed_error`` [T] (one value, or one
-    per point of ``distance``); -inf at points
-    outside the body's own cell (nearer another centre), which are not its to count."""
-    points = bodies[index].center + (distance[..., None] * axes[:, None, :]).reshape(-1, 3)
-    return _lower_at(bodies, index, points, allowed_error, table).reshape(distance.shape)
-
-
-def _face_search(bodies, index, points, outer, threshold, table, best, samples=10):
-    """Farthest distance [m] from the centre found at the threshold on the cell faces near ``points``.
+def _face_paths_near(table, index, points, outer, samples=10):
+    """Paths on the cell faces near ``points`` (n, 3) [m], for :class:`_PathSamples`.
 
     The region at the threshold can hug a face of the cell (a stronger neighbour's field
     spilling over): rays from the centre leave the cell there at once, so for each point
     within 2 % of its distance from a face the search runs on that face instead, outward
-    from the foot of the centre on it through the point's projection, out to ``outer``
-    (geometric samples, then bisection past the outermost one at the threshold). Points of
-    a face belong to the cell, so what is found there counts.
+    from the foot of the centre on it through the point's projection, out to ``outer`` [m]
+    (geometric samples). Points of a face belong to the cell, so what is found there counts.
     """
     cell = shell.Cell(table.centres, index)
+    none = (np.empty((0, 3)), np.empty((0, 3)), np.empty((0, samples)), np.empty(0))
     if not len(cell.gaps) or not len(points):
-        return best
+        return none
     offsets = points - cell.centre
-    excess = offsets @ cell.normals.T - 0.5 * cell.gaps
-    row = np.argmax(excess, axis=1)
-    near = excess[np.arange(len(points)), row] >= -0.02 * np.linalg.norm(offsets, axis=1)
+    excess, row = cell.excess_and_face(points)
+    near = excess >= -0.02 * np.linalg.norm(offsets, axis=1)
     row, offsets = row[near], offsets[near]
     normals, half = cell.normals[row], 0.5 * cell.gaps[row]
     along = offsets - np.sum(offsets * normals, axis=1)[:, None] * normals  # from the foot, in the plane
     start = np.linalg.norm(along, axis=1)
     fits = (start > 0) & (half < outer)
     if not fits.any():
-        return best
-    along, start, normals, half = along[fits] / start[fits, None], start[fits], normals[fits], half[fits]
-    feet = cell.centre + half[:, None] * normals
+        return none
+    along, start, row, half = along[fits] / start[fits, None], start[fits], row[fits], half[fits]
     end = np.sqrt(np.maximum(outer**2 - half**2, start**2))
     steps = start[:, None] * (end / start)[:, None] ** np.linspace(0.0, 1.0, samples)
-
-    def reached(rows, s):  # points at distances s (...) along the face paths rows (...)
-        on_face = feet[rows] + s[..., None] * along[rows]
-        values = _lower_at(bodies, index, on_face.reshape(-1, 3), WITNESS_ERROR * threshold, table)
-        return values.reshape(s.shape) >= threshold
-
-    paths = np.arange(len(steps))
-    return float(_farthest_on_paths(reached(paths[:, None], steps), steps, np.zeros(len(steps), np.intp),
-                                    np.array([best]), reached, lambda rows, s: np.hypot(half[rows], s))[0])
+    return cell.feet[row], along, steps, half
 
 
 def _lower_at(bodies, index, points, allowed_error, table):
@@ -342,13 +323,13 @@ def _geometric_radii(floor, outer, samples):
     return floor * (np.asarray(outer, dtype=float)[..., None] / floor) ** fractions
 
 
-def _surely_reached(bodies, index, axes, distance, threshold, table):
-    """Which points at ``distance`` (n, k) [m] along ``axes`` (n, 3) surely have |B| >= threshold.
-
-    Only points of the body's own cell count (at least as close to its centre as to any
-    other); "surely" means the model value minus its proven error.
-    """
-    return _lower_values(bodies, index, axes, distance, WITNESS_ERROR * threshold, table) >= threshold
+def _probe_paths(bodies, index, axes, radii, inner, samples=10):
+    """Rays along ``axes`` (n, 3) from ``inner`` [m] (or the bounding radius) out to ``radii``
+    (n,) [m], geometric samples, for :class:`_PathSamples`; only the rays that go outward."""
+    floor = max(bodies[index].bounding_radius * (1 + 1e-6), inner)
+    outward = radii > floor
+    steps = _geometric_radii(floor, radii[outward], samples).reshape(-1, samples)
+    return np.broadcast_to(bodies[index].center, (len(steps), 3)), axes[outward], steps, np.zeros(len(steps))
 
 
 def _probe(bodies, index, axes, radii, threshold, samples=10, table=None, inner=0.0):
@@ -356,24 +337,12 @@ def _probe(bodies, index, axes, radii, threshold, samples=10, table=None, inner=
 
     A lower bound of the exact distance (used only to decide where to refine): geometric
     samples from ``inner`` (a radius already found at the threshold, or the body's bounding
-    radius) out to ``radii``, then bisection between the outermost sample at the threshold
+    radius) out to ``radii``, then a search between the outermost sample at the threshold
     and the next one out. Returns ``inner`` if nothing farther is found.
     """
     table = bounds.body_table(bodies, table)
-    floor = max(bodies[index].bounding_radius * (1 + 1e-6), inner)
-    outward = radii > floor
-    if not outward.any():
-        return inner
-    axes, radii = axes[outward], radii[outward]
-    distance = _geometric_radii(floor, radii, samples)
-
-    def reached(rows, s):
-        return _surely_reached(bodies, index, axes[rows], s[:, None], threshold, table)[:, 0]
-
-    found = _farthest_on_paths(_surely_reached(bodies, index, axes, distance, threshold, table), distance,
-                               np.zeros(len(axes), np.intp), np.array([float(inner)]), reached,
-                               lambda rows, s: s)
-    return float(found[0])
+    paths = [_probe_paths(bodies, index, axes, radii, inner, samples)]
+    return float(_PathSamples(bodies, index, table, paths, threshold).farthest([threshold], [inner])[0])
 
 
 def _farthest_on_paths(reached, steps, group, best, check, distance, rounds=3, parts=4):
@@ -454,26 +423,26 @@ class _PathSamples:
         points = self.origins[rows] + s[..., None] * self.directions[rows]
         return _lower_at(self.bodies, self.index, points.reshape(-1, 3), np.ravel(allowed), self.table)
 
-    def farthest(self, thresholds):
-        """Farthest distance [m] from the centre found at each of ``thresholds`` (k,) [T] (0 if none).
+    def farthest(self, thresholds, best=None):
+        """Farthest distance [m] from the centre found at each of ``thresholds`` (k,) [T].
 
         The outermost sample at the threshold on each path, then a search towards the next
         sample out (:func:`_farthest_on_paths`), for the paths that can still beat the best
-        so far; the searches of all thresholds share their field evaluations (each to 1 % of
-        its own threshold).
+        so far (``best`` (k,) [m], points already known; 0 if not given); the searches of all
+        thresholds share their field evaluations (each to 1 % of its own threshold).
         """
         thresholds = np.atleast_1d(np.asarray(thresholds, dtype=float))
+        best = np.zeros(len(thresholds)) if best is None else np.array(best, dtype=float)
         count = len(self.origins)
         if not count:
-            return np.zeros(len(thresholds))
+            return best
         reached = np.concatenate([self.lower >= threshold for threshold in thresholds])  # threshold-major
         group = np.repeat(np.arange(len(thresholds)), count)
 
         def check(rows, s):
             return self._lower(rows % count, s, WITNESS_ERROR * thresholds[group[rows]]) >= thresholds[group[rows]]
 
-        return _farthest_on_paths(reached, np.tile(self.steps, (len(thresholds), 1)), group,
-                                  np.zeros(len(thresholds)), check,
+        return _farthest_on_paths(reached, np.tile(self.steps, (len(thresholds), 1)), group, best, check,
                                   lambda rows, s: np.hypot(self.offsets[rows % count], s))
 
 
@@ -581,8 +550,9 @@ def _next_try(bodies, index, outcome, outer, threshold, table, best, radius):
     points = outcome.witnesses if len(outcome.witnesses) else outcome.unproven
     offsets = points - bodies[index].center
     axes = offsets / np.linalg.norm(offsets, axis=1)[:, None]
-    found = _probe(bodies, index, axes, np.full(len(axes), outer), threshold, table=table, inner=best)
-    found = _face_search(bodies, index, points, outer, threshold, table, found)
+    paths = [_probe_paths(bodies, index, axes, np.full(len(axes), outer), best),
+             _face_paths_near(table, index, points, outer)]
+    found = float(_PathSamples(bodies, index, table, paths, threshold).farthest([threshold], [best])[0])
     if found > best:
         return found, max(_target(found), radius * (1 + 1e-3))
     return best, radius * (1 + LOOSER_STEP)

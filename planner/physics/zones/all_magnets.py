@@ -94,26 +94,13 @@ def faces_next(bodies, index: int, thresholds, proof: MagnetProof, radii) -> Mag
     from :func:`caps_first`; also finishes the distances (step 4)."""
     thresholds = np.atleast_1d(np.asarray(thresholds, dtype=float))
     table = table_of(bodies)
-    best, radius, proven, from_shell = (proof.best.copy(), proof.radius.copy(), proof.proven.copy(),
-                                        proof.shell.copy())
-    limits = [radii[:, k] for k in range(len(thresholds))]
-    pending = np.flatnonzero(from_shell)
-    outcomes = shell.prove_all_beyond(bodies, index, [(proven[k], proof.starts[k], thresholds[k], limits[k])
+    pending = np.flatnonzero(proof.shell)
+    outcomes = shell.prove_all_beyond(bodies, index, [(proof.proven[k], proof.starts[k], thresholds[k], radii[:, k])
                                                       for k in pending], table, phases=("faces",))
-    failed = [k for k, outcome in zip(pending, outcomes) if not outcome.proven]
-    for k, outcome in zip(pending, outcomes):
-        if not outcome.proven:
-            best[k], radius[k] = _next_try(bodies, index, outcome, proof.starts[k], thresholds[k], table, best[k],
-                                           proven[k])
+    failed = [(k, outcome) for k, outcome in zip(pending, outcomes) if not outcome.proven]
     if failed:
-        failed = np.array(failed)
-        retried, best[failed], radius[failed], from_shell[failed] = _prove_all(
-            bodies, index, thresholds[failed], proof.starts[failed], table, best[failed], radius[failed],
-            limits=[limits[k] for k in failed], lower_outer=False)
-        proven[failed] = _walk_unproven(bodies, index, thresholds[failed], proof.starts[failed], table,
-                                        proof.hits[failed], retried)
-    distances = _finish(bodies, index, thresholds, proof.starts, proven, table, proof.hits)
-    return MagnetProof(proof.starts, proof.hits, best, radius, proven, from_shell, distances)
+        proof = _try_again(bodies, index, thresholds, proof, failed, radii, table)
+    return proof._replace(distances=_finish(bodies, index, thresholds, proof.starts, proof.proven, table, proof.hits))
 
 
 _TABLES: dict = {}
@@ -170,7 +157,7 @@ def settle(bodies, thresholds, first: list[MagnetProof], second: list[MagnetProo
                                                 phases=("faces",))
             if outcome.proven:
                 continue
-            proofs[neighbour] = _try_again(bodies, neighbour, thresholds, proof, k, outcome, radii, table)
+            proofs[neighbour] = _try_again(bodies, neighbour, thresholds, proof, [(k, outcome)], radii, table)
             grown.append((neighbour, k, radii[neighbour, k], proofs[neighbour].proven[k]))
             radii[neighbour, k] = proofs[neighbour].proven[k]
             changed.add(neighbour)
@@ -180,16 +167,19 @@ def settle(bodies, thresholds, first: list[MagnetProof], second: list[MagnetProo
     return distances
 
 
-def _try_again(bodies, index, thresholds, proof, k, outcome, radii, table):
-    """``proof`` with threshold ``k`` proven again farther out (caps and faces, the faces out to
-    the neighbours' current ``radii``), after the failed ``outcome`` of a face between them."""
+def _try_again(bodies, index, thresholds, proof, failed, radii, table):
+    """``proof`` with the thresholds of ``failed`` (pairs of a threshold's position and the
+    failed outcome of its faces) proven again farther out: caps and faces, the faces out to
+    the neighbours' current ``radii`` (b, k) [m]."""
     best, radius, proven, from_shell = (proof.best.copy(), proof.radius.copy(), proof.proven.copy(),
                                         proof.shell.copy())
-    best[k], radius[k] = _next_try(bodies, index, outcome, proof.starts[k], thresholds[k], table, best[k],
-                                   proven[k])
-    one = np.array([k])
-    retried, best[one], radius[one], from_shell[one] = _prove_all(
-        bodies, index, thresholds[one], proof.starts[one], table, best[one], radius[one], limits=[radii[:, k]],
-        lower_outer=False)
-    proven[one] = _walk_unproven(bodies, index, thresholds[one], proof.starts[one], table, proof.hits[one], retried)
+    for k, outcome in failed:
+        best[k], radius[k] = _next_try(bodies, index, outcome, proof.starts[k], thresholds[k], table, best[k],
+                                       proven[k])
+    again = np.array([k for k, _ in failed])
+    retried, best[again], radius[again], from_shell[again] = _prove_all(
+        bodies, index, thresholds[again], proof.starts[again], table, best[again], radius[again],
+        limits=[radii[:, k] for k in again], lower_outer=False)
+    proven[again] = _walk_unproven(bodies, index, thresholds[again], proof.starts[again], table, proof.hits[again],
+                                   retried)
     return proof._replace(best=best, radius=radius, proven=proven, shell=from_shell)

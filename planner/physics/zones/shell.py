@@ -256,31 +256,12 @@ class _Task:
         arrays (advancing past phases with nothing left to prove); None once decided."""
         while self.outcome is None:
             if self.phase == "caps":
-                axes, half_angles = (part[self.triangles] for part in icosahedron_cones(self.level))
-                points = cell.centre + self.radius * axes
-                chord = 2 * self.radius * np.sin(half_angles / 2)
-                excess, face = cell.excess_and_face(points)
-                inside = excess - chord <= 0  # caps wholly in another cell have nothing to prove
-                if inside.any():
-                    self.triangles = self.triangles[inside]
-                    axes, half_angles, excess, face = axes[inside], half_angles[inside], excess[inside], face[inside]
-                    # only the part of a cap on this side of the nearest face is the cell's
-                    cut = np.flatnonzero(excess + chord[inside] > 0)
-                    if len(cut):
-                        axes, half_angles = axes.copy(), half_angles.copy()
-                        axes[cut], half_angles[cut], beyond = clipped_caps(
-                            axes[cut], half_angles[cut], cell.normals[face[cut]],
-                            0.5 * cell.gaps[face[cut]] / self.radius)
-                        keep = np.ones(len(axes), bool)
-                        keep[cut[beyond]] = False  # wholly outside after all
-                        if not keep.any():
-                            self.outcome = _PROVEN
-                            break
-                        self.triangles, axes, half_angles = self.triangles[keep], axes[keep], half_angles[keep]
-                        points = cell.centre + self.radius * axes
-                        excess = cell.excess(points)
-                    else:
-                        points = points[inside]
+                keep, axes, half_angles = _caps_in_cell(cell, self.radius,
+                                                        *(part[self.triangles] for part in icosahedron_cones(self.level)))
+                if keep.any():
+                    self.triangles = self.triangles[keep]
+                    points = cell.centre + self.radius * axes
+                    excess = cell.excess(points)
                     return dict(points=points, axes=axes, chord=2 * self.radius * np.sin(half_angles / 2),
                                 along=self.radius * (1 - np.cos(half_angles)), across=self.radius * np.sin(half_angles),
                                 half_angles=half_angles, excess=excess, cap=np.ones(len(axes), bool))
@@ -325,6 +306,27 @@ class _Task:
                           np.concatenate([s_mid, s2, s_mid, s2]), np.concatenate([phi1, phi1, phi_mid, phi_mid]),
                           np.concatenate([phi_mid, phi_mid, phi2, phi2]))
             self.level += 1
+
+
+def _caps_in_cell(cell, radius, axes, half_angles):
+    """The caps (``axes``, ``half_angles``) of the sphere of ``radius`` [m] that reach into the cell.
+
+    Returns which caps reach in (n,) bool, and the axes and half-angles of those, each cut
+    by the face nearest its centre replaced by the smaller cap of :func:`clipped_caps`, which
+    holds only its part inside (the cell's part is all the proof needs).
+    """
+    excess, face = cell.excess_and_face(cell.centre + radius * axes)
+    chord = 2 * radius * np.sin(half_angles / 2)
+    keep = excess - chord <= 0  # caps wholly in another cell have nothing to prove
+    axes, half_angles = axes[keep].copy(), half_angles[keep].copy()
+    cut = np.flatnonzero(excess[keep] + chord[keep] > 0)
+    face = face[keep][cut]
+    axes[cut], half_angles[cut], beyond = clipped_caps(axes[cut], half_angles[cut], cell.normals[face],
+                                                       0.5 * cell.gaps[face] / radius)
+    inside = np.ones(len(axes), bool)
+    inside[cut[beyond]] = False  # wholly outside after all
+    keep[np.flatnonzero(keep)[~inside]] = False
+    return keep, axes[inside], half_angles[inside]
 
 
 _NONE = np.empty((0, 3))

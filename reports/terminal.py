@@ -9,9 +9,8 @@ from __future__ import annotations
 
 import textwrap
 
-from hazards.findings import (DEFERRAL, SEVERITIES, SEVERITY_MEANINGS, deferral_line, is_number, plain_number, show,
-                              approach_text, none_if_zero,
-                              show_field, threshold_text)
+from hazards.findings import (DEFERRAL, SEVERITIES, SEVERITY_MEANINGS, approach_text, deferral_line, is_number,
+                              none_if_zero, plain_number, show, show_field, threshold_text)
 from planner.units import MICRO_ASCII, format_quantity
 from reports.collapse import collapse_rows
 from reports.pdf.formatting import key_label

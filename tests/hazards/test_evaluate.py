@@ -16,7 +16,7 @@ from hazards.findings import BLOCKING, SEVERITIES, Finding
 from hazards.rules import RULES
 from hazards.thresholds import effective_thresholds
 from planner.assessment import InductionFigures, ProjectileFigures, ShippingFigures
-from planner.setup import load_setup, site_rules_of
+from planner.setup import site_rules_of
 from planner.setup.model import SiteRules
 from tests.hazards import assessment, keep_out, magnet, pair, setup_from, zone_reach
 

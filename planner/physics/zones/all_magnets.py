@@ -54,7 +54,7 @@ from planner.physics.zones import bounds, shell
 from planner.physics.zones.keep_out import (_checked, _finish, _first_tries, _next_try, _prove_all, _refine,
                                             _starts_and_hits)
 
-__all__ = ["MagnetProof", "caps_first", "faces_next", "settle", "table_of"]
+__all__ = ["MagnetProof", "caps_first", "faces_next", "settle"]
 
 
 class MagnetProof(NamedTuple):
@@ -80,7 +80,7 @@ class MagnetProof(NamedTuple):
 def caps_first(bodies, index: int, thresholds) -> MagnetProof:
     """Step 1 of the module docstring for body ``index``: radii proven on the sphere only."""
     thresholds = _checked(bodies, index, thresholds)
-    table = table_of(bodies)
+    table = bounds.body_table(bodies)
     starts, hits = _starts_and_hits(bodies, index, thresholds, table)
     best, radius = _first_tries(bodies, index, hits)
     proven, best, radius, from_shell = _prove_all(bodies, index, thresholds, starts, table, best, radius,
@@ -93,7 +93,7 @@ def faces_next(bodies, index: int, thresholds, proof: MagnetProof, radii) -> Mag
     """Step 2 of the module docstring for body ``index``, with every magnet's ``radii`` (b, k) [m]
     from :func:`caps_first`; also finishes the distances (step 4)."""
     thresholds = np.atleast_1d(np.asarray(thresholds, dtype=float))
-    table = table_of(bodies)
+    table = bounds.body_table(bodies)
     pending = np.flatnonzero(proof.shell)
     outcomes = shell.prove_all_beyond(bodies, index, [(proof.proven[k], proof.starts[k], thresholds[k], radii[:, k])
                                                       for k in pending], table, phases=("faces",))
@@ -101,22 +101,6 @@ def faces_next(bodies, index: int, thresholds, proof: MagnetProof, radii) -> Mag
     if failed:
         proof = _try_again(bodies, index, thresholds, proof, failed, radii, table)
     return proof._replace(distances=_finish(bodies, index, thresholds, proof.starts, proof.proven, table, proof.hits))
-
-
-_TABLES: dict = {}
-
-
-def table_of(bodies):
-    """The bodies' :class:`~planner.physics.zones.bounds.BodyTable`, kept for the next call with
-    the same bodies (a worker computes both rounds of several magnets of one setup; the
-    bodies arrive as new objects each time, so they are recognised by their values)."""
-    key = tuple((body.shape, body.diameter, body.height, body.inner_diameter,
-                 *np.concatenate([np.ravel(body.center), np.ravel(body.rotation), np.ravel(body.polarization),
-                                  np.ravel(body.size)]).tolist()) for body in bodies)
-    if key not in _TABLES:
-        _TABLES.clear()  # one setup at a time
-        _TABLES[key] = bounds.BodyTable(bodies)
-    return _TABLES[key]
 
 
 def _walk_unproven(bodies, index, thresholds, starts, table, hits, proven):
@@ -135,7 +119,7 @@ def settle(bodies, thresholds, first: list[MagnetProof], second: list[MagnetProo
     and after :func:`faces_next`.
     """
     thresholds = np.atleast_1d(np.asarray(thresholds, dtype=float))
-    table = table_of(bodies)
+    table = bounds.body_table(bodies)
     proofs = list(second)
     radii = np.array([proof.proven for proof in proofs]).reshape(len(bodies), -1)
     # (magnet, threshold, old radius, new radius) whose faces the neighbours have not covered

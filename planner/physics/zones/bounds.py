@@ -165,8 +165,27 @@ class SeriesFactors:
 
 
 def body_table(bodies, table=None):
-    """``table`` if given (built for these bodies), else a new :class:`BodyTable`."""
-    return table if table is not None else BodyTable(bodies)
+    """``table`` if given (built for these bodies), else the bodies' :class:`BodyTable`.
+
+    The last one built is kept for the next call with the same bodies: a keep-out search, a
+    worker's rounds over several magnets and a map all ask for it many times, and the bodies
+    may arrive as new objects (from a worker's queue), so they are recognised by their values.
+    """
+    global _LAST_TABLE
+    if table is not None:
+        return table
+    key = tuple((body.shape, body.diameter, body.height, body.inner_diameter,
+                 *np.concatenate([np.ravel(body.center), np.ravel(body.rotation), np.ravel(body.polarization),
+                                  np.ravel(body.size)]).tolist()) for body in bodies)
+    last = _LAST_TABLE
+    if last is not None and last[0] == key:
+        return last[1]
+    table = BodyTable(bodies)
+    _LAST_TABLE = (key, table)  # one set of bodies at a time; replaced whole, so safe across threads
+    return table
+
+
+_LAST_TABLE = None
 
 
 def _mean_square_radius(body):

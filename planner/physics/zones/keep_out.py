@@ -217,7 +217,7 @@ def keep_out_radii(bodies: list[MagnetBody], index: int, thresholds) -> np.ndarr
         Distances [m] in the order of ``thresholds``.
     """
     thresholds = _checked(bodies, index, thresholds)
-    table = bounds.BodyTable(bodies)
+    table = bounds.body_table(bodies)
     starts, hits = _starts_and_hits(bodies, index, thresholds, table)
     proven = _prove_all(bodies, index, thresholds, starts, table, *_first_tries(bodies, index, hits))[0]
     return _finish(bodies, index, thresholds, starts, proven, table, hits)

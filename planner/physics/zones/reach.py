@@ -10,7 +10,7 @@ from __future__ import annotations
 import numpy as np
 
 from planner.physics.bodies import distance_to_body
-from planner.physics.zones.bounds import BodyTable, field_with_error, gradient_bound
+from planner.physics.zones.bounds import body_table, field_with_error, gradient_bound
 
 
 RELATIVE_TOLERANCE = 0.05  # the bound on the largest field is refined to within 5 % of a sampled value
@@ -144,7 +144,7 @@ def zone_reach(bodies, zones, thresholds, height=0.0, per_side=9):
     if zones.shape[-1] == 2:
         zones = np.concatenate([zones, np.full(zones.shape[:-1] + (1,), height)], axis=-1)
     thresholds = np.atleast_1d(np.asarray(thresholds, dtype=float))
-    table = BodyTable(bodies)
+    table = body_table(bodies)
     count = len(zones)
     max_field = np.zeros(count)
     depth = np.zeros((count, len(thresholds)))

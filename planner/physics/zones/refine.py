@@ -42,7 +42,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from planner.physics.zones.bounds import (BodyTable, _ball_geometry, body_table, derivative_bound,
+from planner.physics.zones.bounds import (_ball_geometry, body_table, derivative_bound,
                                           field_vector_with_error)
 
 VIEWS = {"plan": (0, 1, 2), "elevation": (0, 2, 1)}  # (across-page, up-page, normal) axes
@@ -174,7 +174,7 @@ class _PlaneGrid:
     def __init__(self, bodies, view, offset, u, v, allowed_error):
         self.bodies, self.view, self.offset, self.u, self.v = bodies, view, offset, u, v
         self.allowed_error = allowed_error
-        self.table = BodyTable(bodies)
+        self.table = body_table(bodies)
         shape = (len(v), len(u))
         self.value = np.zeros(shape)
         self.vector = np.full(shape + (3,), np.nan)

@@ -67,7 +67,8 @@ from typing import NamedTuple
 import numpy as np
 
 from planner.physics.bodies import plane_basis
-from planner.physics.zones.bounds import K, BodyTable, cell_field_bounds, derivative_bounds, dipole_remainder
+from planner.physics.zones.bounds import (K, BodyTable, body_table, cell_field_bounds, derivative_bounds,
+                                          dipole_remainder)
 from planner.physics.zones.certify import LocalModel, dipole_sums, local_model, patch_below
 from planner.physics.zones.sampling import child_indices, icosahedron_cones
 
@@ -409,7 +410,7 @@ def prove_all_beyond(bodies, index: int, tasks, table: BodyTable | None = None,
     (:func:`planner.physics.zones.table.keep_out_table`). ``phases``: "caps" (the sphere),
     "faces", or both in turn (the faces only of the tasks whose caps were proven).
     """
-    table = BodyTable(bodies) if table is None else table
+    table = body_table(bodies, table)
     cell = Cell(table.centres, index)
     tasks = [tuple(task) + (None,) * (4 - len(task)) for task in tasks]
     outcomes = [_PROVEN] * len(tasks)

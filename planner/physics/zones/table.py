@@ -19,7 +19,8 @@ from concurrent.futures import ProcessPoolExecutor, ThreadPoolExecutor
 import numpy as np
 
 from planner.physics.bodies import MagnetBody
-from planner.physics.zones.all_magnets import caps_first, faces_next, settle, table_of
+from planner.physics.zones.all_magnets import caps_first, faces_next, settle
+from planner.physics.zones.bounds import body_table
 
 __all__ = ["KeepOutJob", "keep_out_table", "available_workers"]
 
@@ -49,7 +50,7 @@ class KeepOutJob:
         if self.workers > 1:
             # The bodies' constants, built here before forking, are inherited by every worker
             # instead of being computed again in each.
-            table_of(self.bodies)
+            body_table(self.bodies)
             self._pool = ProcessPoolExecutor(max_workers=self.workers, mp_context=multiprocessing.get_context("fork"))
             # The first task forks every worker at once, here in the calling thread, before
             # the thread that hands out the rounds exists (forking a process that runs

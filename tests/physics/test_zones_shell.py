@@ -369,3 +369,18 @@ def test_dipole_jacobian_on_a_sphere_is_the_derivative_of_the_dipole_field():
                              - dipole_field((point - h * e)[None], moment, np.zeros(3)))[0] / (2 * h)
                             for e in np.eye(3)])  # row j: dB/dx_j
         assert np.allclose(ours, numeric, rtol=1e-6, atol=1e-9 * np.abs(numeric).max())
+
+
+def test_body_table_is_kept_for_the_same_bodies_and_rebuilt_for_others():
+    # identity: bodies equal in value (as a worker receives them, rebuilt from a queue) get the
+    # table already built; another set gets its own, equal to one built directly
+    from planner.physics.zones.bounds import body_table
+
+    first = body_table(bench())
+    assert body_table(bench()) is first
+    moved = bench()
+    moved[0] = MagnetBody("cylinder", [0.001, 0, 0], moved[0].rotation, moved[0].polarization,
+                          diameter=moved[0].diameter, height=moved[0].height)
+    other = body_table(moved)
+    assert other is not first
+    assert np.array_equal(other.centres, BodyTable(moved).centres)

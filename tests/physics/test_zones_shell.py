@@ -136,6 +136,36 @@ def test_caps_proven_with_the_own_dipole_hold_under_brute_force():
     assert max(outcome_caps) < threshold
 
 
+def test_largest_first_order_term_is_the_maximum_over_the_cap_angles():
+    # max over 0 <= theta <= delta of -(1 - cos theta) a + sin theta b, against a dense grid of
+    # theta (an independent computation), for a of either sign and caps up to 40 degrees.
+    a = RNG.normal(size=400)
+    b = np.abs(RNG.normal(size=400))
+    delta = RNG.uniform(0.01, 0.7, 400)
+    theta = delta[:, None] * np.linspace(0.0, 1.0, 20001)[None, :]
+    dense = np.max(-(1 - np.cos(theta)) * a[:, None] + np.sin(theta) * b[:, None], axis=1)
+    largest = shell._largest_first_order(a, b, delta)
+    assert np.all(largest >= dense - 1e-12)
+    assert np.allclose(largest, dense, rtol=0, atol=1e-8)
+
+
+def test_cap_at_the_pole_of_a_dipole_is_proven_just_above_the_pole_field():
+    # A uniformly magnetized sphere's outside field is exactly its dipole's (Jackson eq. 5.56
+    # and section 5.10), strongest at the pole and falling away from it. A cap of 9 degrees
+    # about the pole is proven at 4.5 % above the pole field: the bound keeps the fall
+    # towards the rim (with |P.An| and |m| |d| in its place it would need 11 %).
+    ball = MagnetBody("sphere", [0, 0, 0], np.eye(3), [0, 0, 1.2], diameter=0.01)
+    table = BodyTable([ball])
+    radius, half_angle = 0.05, np.radians(9.0)
+    axis = np.array([[0.0, 0.0, 1.0]])
+    pole = float(field_size([ball], radius * axis)[0])
+    model = local_model([ball], radius * axis, 1e-6 * pole, table)
+    for factor, expected in ((1.045, True), (1.02, False)):
+        holds = shell._dipole_cap_holds(model, table.vectors[0], radius, axis, np.array([half_angle]),
+                                        np.zeros(1), factor * pole)
+        assert bool(holds[0]) is expected
+
+
 def test_flat_patches_proven_hold_under_brute_force():
     # Flat patches of a bisecting plane (the faces of the proof), radius 4 mm, proven by the
     # general second-order bound at a threshold near their median field.

@@ -225,18 +225,20 @@ def _dipole_cap_holds(model: LocalModel, moment, radius, axes, half_angles, rest
     cosine, sine = np.cos(half_angles), np.sin(half_angles)
     scale = 3 * K / radius**3
     along_moment = n @ moment
-    rest_jacobian = model.jacobian - dipole_jacobian_on_sphere(moment, radius, n)
-    a = (scale[:, None, None] * (n[:, :, None] * moment[None, None, :] + along_moment[:, None, None] * np.eye(3))
-         + radius[:, None, None] * np.swapaxes(rest_jacobian, 1, 2))
-    p0 = model.field
-    a_n = np.einsum("nij,nj->ni", a, n)
-    at_p = np.einsum("nji,nj->ni", a, p0)
-    at_p_across = at_p - np.sum(at_p * n, axis=1)[:, None] * n
+    # A = R DV(y)^T + 3 k (n m^T + (m.n) I) / R^3 with DV the model Jacobian less the own
+    # dipole's, 3 k [(m.n)(I - 5 n n^T) + n m^T + m n^T] / R^4 at y: it comes to
+    # A = R DB(y) + (3 k / R^3) (5 (m.n) n - m) n^T, DB[i, j] = dB_i/dx_j = jacobian[j, i].
+    # So A n = R DB n + (3 k / R^3)(5 (m.n) n - m), A w = R DB w across n, and the part of
+    # A^T P across n is R (DB^T P) across n.
+    jacobian, p0 = model.jacobian, model.field
+    a_n = radius[:, None] * np.einsum("nji,nj->ni", jacobian, n) + scale[:, None] * (5 * along_moment[:, None] * n - moment)
+    at_p = np.einsum("nji,ni->nj", jacobian, p0)
+    at_p_across = radius[:, None] * (at_p - np.sum(at_p * n, axis=1)[:, None] * n)
     # the norm of A on the plane across n: the largest eigenvalue of the 2 x 2 Gram matrix
     e1, e2 = plane_basis(n)
-    a1, a2 = np.einsum("nij,nj->ni", a, e1), np.einsum("nij,nj->ni", a, e2)
+    a1, a2 = np.einsum("nji,nj->ni", jacobian, e1), np.einsum("nji,nj->ni", jacobian, e2)
     g11, g22, g12 = np.sum(a1 * a1, axis=1), np.sum(a2 * a2, axis=1), np.sum(a1 * a2, axis=1)
-    across_norm = np.sqrt(0.5 * (g11 + g22) + np.sqrt(0.25 * (g11 - g22)**2 + g12**2))
+    across_norm = radius * np.sqrt(0.5 * (g11 + g22) + np.sqrt(0.25 * (g11 - g22)**2 + g12**2))
     linear = _largest_first_order(np.sum(p0 * a_n, axis=1), np.linalg.norm(at_p_across, axis=1), half_angles)
     step = (1 - cosine) * np.linalg.norm(a_n, axis=1) + sine * across_norm
     moment_across = np.sqrt(np.maximum(float(moment @ moment) - along_moment**2, 0.0))

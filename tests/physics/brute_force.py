@@ -38,7 +38,8 @@ def largest_field_beyond(bodies, index, radius, rng, count=60000):
 
 def farthest_found(bodies, index, threshold, start, rng, directions=6000):
     """Brute force lower bound of the exact distance: shells from ``start`` inward, then a
-    local search around the best direction (random turns, bisection along each ray)."""
+    local search around each of the first few directions that reach the threshold on the
+    outermost shell with any (random turns, bisection along each ray)."""
     unit = rng.normal(size=(directions, 3))
     unit /= np.linalg.norm(unit, axis=1)[:, None]
     floor = bodies[index].bounding_radius
@@ -57,16 +58,21 @@ def farthest_found(bodies, index, threshold, start, rng, directions=6000):
             break
     else:
         return floor
-    best = unit[hits][0]
-    for spread in (0.2, 0.05, 0.01):
-        trial = best + spread * rng.normal(size=(400, 3))
-        trial = np.vstack([best, trial / np.linalg.norm(trial, axis=1)[:, None]])
-        low, high = np.full(len(trial), 0.0), np.full(len(trial), outer)
-        low[reached(centre + radius * trial)] = radius
-        for _ in range(25):
-            middle = np.where(low > 0, 0.5 * (low + high), radius)
-            ok = reached(centre + middle[:, None] * trial) & (low > 0)
-            low = np.where(ok, middle, low)
-            high = np.where(ok | (low == 0), high, middle)
-        radius, best = max(radius, float(low.max())), trial[np.argmax(low)]
-    return radius
+    # a local search from each of a few hit directions: the farthest point can lie in a
+    # different lobe than the first hit (a neighbour's field spilling over a face)
+    found = radius
+    for best in unit[hits][:4]:
+        reach = radius
+        for spread in (0.2, 0.05, 0.01):
+            trial = best + spread * rng.normal(size=(400, 3))
+            trial = np.vstack([best, trial / np.linalg.norm(trial, axis=1)[:, None]])
+            low, high = np.full(len(trial), 0.0), np.full(len(trial), outer)
+            low[reached(centre + reach * trial)] = reach
+            for _ in range(25):
+                middle = np.where(low > 0, 0.5 * (low + high), reach)
+                ok = reached(centre + middle[:, None] * trial) & (low > 0)
+                low = np.where(ok, middle, low)
+                high = np.where(ok | (low == 0), high, middle)
+            reach, best = max(reach, float(low.max())), trial[np.argmax(low)]
+        found = max(found, reach)
+    return found

@@ -14,8 +14,8 @@ import pytest
 from planner.physics.bodies import MagnetBody, rotation_from_axis
 from planner.physics.fields import field_of_bodies
 from planner.physics.zones import shell
-from planner.physics.zones.bounds import BodyTable, dipole_remainder
-from planner.physics.zones.certify import local_model, patch_below
+from planner.physics.zones.bounds import BodyTable, _ball_geometry, derivative_bounds, dipole_remainder
+from planner.physics.zones.certify import _second_derivative_bound, local_model, patch_below
 from planner.physics.zones.keep_out import farthest_start_radii, keep_out_radii
 from planner.physics.zones.sampling import cone_of_triangle, icosahedron_triangles
 from tests.physics.brute_force import farthest_found, in_own_cell
@@ -118,7 +118,6 @@ def test_caps_proven_with_the_own_dipole_hold_under_brute_force():
     inside = cell.excess(points) <= 0
     outcome_caps = []
     model = local_model(bodies, points[inside], 2e-3 * threshold, table)
-    from planner.physics.zones.bounds import derivative_bounds
     chord = 2 * radius * np.sin(half_angles[inside] / 2)
     _, second = derivative_bounds(model.geometry, chord, (1, 2), per_body=True)
     own = table.subset([0])
@@ -299,6 +298,21 @@ def test_forward_difference_jacobian_is_within_its_stated_error():
                       for e in np.eye(3)], axis=1)
     difference = np.linalg.norm(model.jacobian - exact, axis=(1, 2))
     assert np.all(difference <= model.jacobian_error + 1e-6 * np.linalg.norm(exact, axis=(1, 2)))
+
+
+def test_one_body_second_derivative_bound_is_the_general_one_without_the_series():
+    # The forward-difference truncation uses a written-out bound for the one differenced body;
+    # it must equal the volume and surface forms of derivative_bounds (series form left out)
+    # for that body's column, beside and away from each body of the bench.
+    bodies = bench()
+    table = BodyTable(bodies)
+    for index, body in enumerate(bodies):
+        points = body.center + random_directions(200) * body.bounding_radius * RNG.uniform(0.9, 6.0, (200, 1))
+        spread = RNG.uniform(0.0, 0.3, 200) * body.bounding_radius
+        geometry = _ball_geometry(bodies, points, table)
+        general = derivative_bounds(geometry, spread, (2,), per_body=True, series_form=False)[0][:, index]
+        written = _second_derivative_bound(table, index, geometry[0][:, index], geometry[1][:, index], spread)
+        np.testing.assert_allclose(written, general, rtol=1e-12)
 
 
 def test_weak_magnet_beside_a_strong_one_covers_the_field_along_their_face():

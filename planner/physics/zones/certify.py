@@ -50,7 +50,7 @@ from typing import NamedTuple
 
 import numpy as np
 
-from planner.physics.zones.bounds import (K, _ball_geometry, body_table, derivative_bound,
+from planner.physics.zones.bounds import (K, _ball_geometry, body_table,
                                           derivative_bounds, dipole_assignment, exact_body_field)
 
 def _split_far(geometry, widest, centre_bounds, ratio=10.0):
@@ -166,7 +166,6 @@ def local_model(bodies, points, allowed_error, table=None) -> LocalModel:
     geometry = _ball_geometry(bodies, points, table, distance)
     field, jacobian = dipole_field_and_jacobian(bodies, points, far, table, distance)
     step = 1e-4 * np.maximum(np.min(np.maximum(geometry[1], geometry[0] - geometry[3]), axis=1), 1e-9)
-    differenced = ~far.all(axis=1)  # points with an exact body, whose Jacobian is a forward difference
     for i in np.flatnonzero(~far.all(axis=0)):  # the bodies exact at some point
         body, near = bodies[i], np.flatnonzero(~far[:, i])
         h = step[near]
@@ -179,12 +178,24 @@ def local_model(bodies, points, allowed_error, table=None) -> LocalModel:
         # switch), so each entry (f(x + h) - f(x)) / h is off by at most 2e-8 max|B| / h
         # and the 3 x 3 Frobenius norm by three times that.
         jacobian_error[near] += 6e-8 * np.max(np.abs(values), axis=(0, 2)) / h
-    # truncation: each column is off by at most (h / 2) max ||D^2 B|| within h of the point
-    if differenced.any():
-        rows = np.flatnonzero(differenced)
-        jacobian_error[rows] += np.sqrt(3) * step[rows] / 2 * derivative_bound(_geometry_rows(geometry, rows),
-                                                                                step[rows], 2)
+        # truncation: each column is off by at most (h / 2) max ||D^2 B_i|| within h of the
+        # point (only this body's field is differenced)
+        jacobian_error[near] += np.sqrt(3) * h / 2 * _second_derivative_bound(table, i, distance[near, i],
+                                                                              geometry[1][near, i], h)
     return LocalModel(field, jacobian, error, jacobian_error, geometry)
+
+
+def _second_derivative_bound(table, body, centre_distance, solid_distance, spread):
+    """Bound on ||D^2 B|| [T/m^2] of one body over balls of radius ``spread`` (n,) [m]: the smaller
+    of the volume and surface forms of :func:`~planner.physics.zones.bounds.derivative_bounds`
+    at order 2 (24 k m / e^5 and 3/2 A / D^2 + 3 pi / 4 C / D^3 with the distances less the
+    spread), written out for the few points of one body; +inf where a ball reaches the body."""
+    gap = solid_distance - spread
+    far = np.maximum(centre_distance - table.shift[body], solid_distance) - spread
+    with np.errstate(divide="ignore", invalid="ignore"):
+        volume = 24 * K * table.moments[body] / far**5
+        surface = 1.5 * table.flat[body] / gap**2 + 0.75 * np.pi * table.curved[body] / gap**3
+    return np.where(gap > 0, np.fmin(volume, surface), np.inf)
 
 
 def gradient_parts(model: LocalModel):

@@ -35,7 +35,10 @@ __all__ = ["keep_out_radius", "keep_out_radii", "farthest_start_radius", "farthe
 RELATIVE_TARGET = 0.045  # refine until the proven radius is within 4.5 % ...
 ABSOLUTE_TARGET = 4.5e-3  # ... or 4.5 mm of the farthest point found at the threshold [m]
 PROBED_CONES = 48
-RAYS = 64  # directions sampled for points at the thresholds (with the face paths, 128 found no more)
+# Directions sampled for points at the thresholds. With the face paths, 128 found no more than
+# 64; 40 (about 32 degrees apart) needed one more retried proof in 30 random setups of 2-6
+# magnets than 64 did, and 23 % fewer field evaluations in the search.
+RAYS = 40
 FACE_PATHS = 12  # paths on each face of the cell, out from the centre's foot
 START_LEVEL = 2  # 320 cones of about 9 degrees to begin with
 MAX_LEVEL = 7
@@ -653,7 +656,7 @@ def keep_out_radius(bodies: list[MagnetBody], index: int, threshold: float) -> f
 
     **Method.** (1) Start at a radius S proven beyond the threshold
     (:func:`farthest_start_radius`). (2) Find points at the threshold: |B| minus its proven
-    error is sampled along 64 rays from the centre and 12 paths on each face of the cell
+    error is sampled along 40 rays from the centre and 12 paths on each face of the cell
     (where a neighbour's field spills over a face, the farthest point hugs it), and bisected
     past the outermost sample that reaches the threshold; the farthest such point is a lower
     bound of the exact value

@@ -318,3 +318,27 @@ def test_cones_beyond_their_cell_limit_lie_in_the_neighbours_cell():
         nearest = np.min(np.linalg.norm(points[:, None] - np.array([b.center for b in bodies[1:]])[None], axis=2),
                          axis=1)
         assert np.all(nearest < own)
+
+
+def test_model_field_sums_dipoles_the_same_way_for_few_and_many_points(monkeypatch):
+    # The far dipoles are summed in one set of (n, b, 3) arrays for small batches and body by
+    # body for large ones; both must give the model field: exact fields of the near bodies
+    # plus point dipoles (planner.physics.fields.sphere.dipole_field, Jackson eq. 5.56) of
+    # the far ones, summed here independently.
+    from planner.physics.fields import field_of_body
+    from planner.physics.fields.sphere import dipole_field
+    from planner.physics.zones import bounds
+    rng = np.random.default_rng(11)
+    bodies = [MagnetBody("cylinder", rng.uniform(-0.1, 0.1, 3), rotation_from_axis(rng.normal(size=3)),
+                         rng.normal(size=3), diameter=0.012, height=0.006) for _ in range(6)]
+    table = bounds.BodyTable(bodies)
+    points = rng.uniform(-0.15, 0.15, (300, 3))
+    far = table.centre_distances(points) > 4 * table.reach
+    expected = np.zeros_like(points)
+    for i, body in enumerate(bodies):
+        expected[far[:, i]] += dipole_field(points[far[:, i]], table.vectors[i], table.centres[i])
+        expected[~far[:, i]] += field_of_body(body, points[~far[:, i]])
+    scale = np.linalg.norm(expected, axis=1)[:, None]
+    for limit in (10**9, 0):  # every batch in one set of arrays; every batch body by body
+        monkeypatch.setattr(bounds, "_DENSE_PAIRS", limit)
+        assert np.all(np.abs(bounds.model_field(bodies, points, far, table) - expected) <= 1e-12 * scale)

@@ -313,12 +313,39 @@ def cell_field_bounds(table, index, radius, on_sphere=False):
     return 2 * K * table.moments / distance**3 + dipole_remainder(table, distance, 0)
 
 
-def model_field(bodies, points, far, table=None):
-    """B (n, 3) [T]: point dipoles for the (point, body) pairs in ``far``, exact otherwise."""
+def dipole_sums(offset, inverse, moments, with_jacobian=True):
+    """Field (n, 3) [T] and Jacobian (n, 3, 3) [T/m], [j, l] = dB_l/dx_j, summed over point dipoles.
+
+    ``moments`` (b, 3) [A m^2] seen at ``offset`` (n, b, 3) [m] from each, with the reciprocal
+    distances ``inverse`` (n, b) [1/m] (0 leaves a pair out). B = k (3 (m.u) u - m) / r^3 and
+    dB_l/dx_j = 3 k / r^4 [(m.u)(delta_jl - 5 u_j u_l) + m_j u_l + m_l u_j] (Jackson eq. 5.56
+    and its derivative). ``with_jacobian=False`` returns the field alone.
+    """
+    unit = offset * inverse[..., None]
+    along = np.einsum("nbk,bk->nb", unit, moments)
+    weight = K * inverse**3
+    # sum_b w (3 (m.u) u - m), without the (n, b, 3) term
+    field = 3 * np.matmul((weight * along)[:, None, :], unit)[:, 0] - weight @ moments
+    if not with_jacobian:
+        return field
+    scaled = 3 * weight * inverse
+    along_scaled = scaled * along
+    outer = np.matmul(np.swapaxes(along_scaled[..., None] * unit, 1, 2), unit)  # sum_b c (m.u) u_j u_l
+    mixed = np.matmul(np.swapaxes(scaled[..., None] * moments[None], 1, 2), unit)  # sum_b c m_j u_l
+    jacobian = (np.sum(along_scaled, axis=1)[:, None, None] * np.eye(3) - 5 * outer
+                + mixed + np.swapaxes(mixed, 1, 2))
+    return field, jacobian
+
+
+def model_field(bodies, points, far, table=None, distance=None):
+    """B (n, 3) [T]: point dipoles for the (point, body) pairs in ``far``, exact otherwise.
+
+    ``distance``: the points' distances from the bodies' centres (n, b) [m], if the caller
+    has them."""
     total = np.zeros_like(points)
     table = body_table(bodies, table)
-    if len(points) * len(bodies) <= _GATHER_PAIRS:
-        _add_far_dipoles_gathered(total, points, far, table)
+    if len(points) * len(bodies) <= _DENSE_PAIRS:
+        total += _far_dipoles_dense(points, far, table, distance)
     else:
         # Many points: body by body over its far points (arrays of n, not of n x b pairs,
         # which for a 400 x 400 map of 30 magnets would be five million rows)
@@ -340,20 +367,21 @@ def model_field(bodies, points, far, table=None):
     return total
 
 
-# Below this many (point, body) pairs the far dipoles are gathered into one set of arrays
-# (fewer numpy calls for the small batches of the keep-out proofs); above it they are
-# summed body by body (faster from a few thousand pairs on). Both give the same sums, up to
-# the order of additions.
-_GATHER_PAIRS = 20000
+# Up to this many (point, body) pairs the far dipoles are summed in one set of (n, b, 3)
+# arrays, which stay in the processor cache (about 0.5 MB each): 2.5 to 5 times faster than
+# body by body for the 50-800 points of the keep-out searches among 30 magnets. Beyond it,
+# body by body is as fast or faster. Both give the same sums, up to the order of additions.
+_DENSE_PAIRS = 24000
 
 
-def _add_far_dipoles_gathered(total, points, far, table):
-    """Add the far pairs' dipole fields to ``total``: gathered, then summed per point."""
-    rows, columns = np.nonzero(far)
-    if len(rows):
-        dipoles = dipole_field(points[rows], table.vectors[columns], table.centres[columns])
-        for axis in range(3):
-            total[:, axis] += np.bincount(rows, dipoles[:, axis], minlength=len(points))
+def _far_dipoles_dense(points, far, table, distance=None):
+    """Summed point-dipole field (n, 3) [T] of the far pairs (:func:`dipole_sums`), in one set of
+    (n, b, 3) arrays."""
+    offset = points[:, None, :] - table.centres[None]
+    if distance is None:
+        distance = np.sqrt(np.sum(offset**2, axis=2))
+    inverse = np.where(far, 1.0 / np.where(far, distance, 1.0), 0.0)  # 0 for the pairs left out
+    return dipole_sums(offset, inverse, table.vectors, with_jacobian=False)
 
 
 def field_with_error(bodies, points, allowed_error, table=None, distance=None):
@@ -394,7 +422,7 @@ def field_vector_with_error(bodies, points, allowed_error, table=None, distance=
     points = np.asarray(points, dtype=float).reshape(-1, 3)
     table = body_table(bodies, table)
     far, error, _ = dipole_assignment(bodies, points, allowed_error, table, distance)
-    return model_field(bodies, points, far, table), error
+    return model_field(bodies, points, far, table, distance), error
 
 
 def _ball_geometry(bodies, points, table=None, centre_distance=None):

@@ -50,8 +50,8 @@ from typing import NamedTuple
 
 import numpy as np
 
-from planner.physics.zones.bounds import (K, _ball_geometry, body_table,
-                                          derivative_bounds, dipole_assignment, exact_body_field)
+from planner.physics.zones.bounds import (K, _ball_geometry, body_table, derivative_bounds, dipole_assignment,
+                                          dipole_sums, exact_body_field)
 
 def _split_far(geometry, widest, centre_bounds, ratio=10.0):
     """Split the (point, body) pairs by how far the body is from each ball, widest radius ``widest``.
@@ -93,7 +93,7 @@ def _split_far(geometry, widest, centre_bounds, ratio=10.0):
 
 def dipole_field_and_jacobian(bodies, points, far, table=None, distance=None):
     """Summed point-dipole field (n, 3) and Jacobian (n, 3, 3) [j, l] = dB_l/dx_j of the far pairs
-    (:func:`dipole_sums` of the bodies' moments at their centres)."""
+    (:func:`~planner.physics.zones.bounds.dipole_sums` of the bodies' moments at their centres)."""
     if not far.any():
         return np.zeros((len(points), 3)), np.zeros((len(points), 3, 3))
     table = body_table(bodies, table)
@@ -102,28 +102,6 @@ def dipole_field_and_jacobian(bodies, points, far, table=None, distance=None):
         distance = np.sqrt(np.sum(offset**2, axis=2))
     inverse = np.where(far, 1.0 / np.where(far, distance, 1.0), 0.0)  # 0 for the pairs left out
     return dipole_sums(offset, inverse, table.vectors)
-
-
-def dipole_sums(offset, inverse, moments):
-    """Field (n, 3) [T] and Jacobian (n, 3, 3) [T/m], [j, l] = dB_l/dx_j, summed over point dipoles.
-
-    ``moments`` (b, 3) [A m^2] seen at ``offset`` (n, b, 3) [m] from each, with the reciprocal
-    distances ``inverse`` (n, b) [1/m] (0 leaves a pair out). B = k (3 (m.u) u - m) / r^3 and
-    dB_l/dx_j = 3 k / r^4 [(m.u)(delta_jl - 5 u_j u_l) + m_j u_l + m_l u_j] (Jackson eq. 5.56
-    and its derivative).
-    """
-    unit = offset * inverse[..., None]
-    along = np.einsum("nbk,bk->nb", unit, moments)
-    weight = K * inverse**3
-    # sum_b w (3 (m.u) u - m), without the (n, b, 3) term
-    field = 3 * np.matmul((weight * along)[:, None, :], unit)[:, 0] - weight @ moments
-    scaled = 3 * weight * inverse
-    along_scaled = scaled * along
-    outer = np.matmul(np.swapaxes(along_scaled[..., None] * unit, 1, 2), unit)  # sum_b c (m.u) u_j u_l
-    mixed = np.matmul(np.swapaxes(scaled[..., None] * moments[None], 1, 2), unit)  # sum_b c m_j u_l
-    jacobian = (np.sum(along_scaled, axis=1)[:, None, None] * np.eye(3) - 5 * outer
-                + mixed + np.swapaxes(mixed, 1, 2))
-    return field, jacobian
 
 
 class LocalModel(NamedTuple):

@@ -210,20 +210,24 @@ def _surface_coefficients(body):
     return 2 * axial, 2 * radial * radii
 
 
-def dipole_assignment(bodies, points, allowed_error, table=None, distance=None):
+def dipole_assignment(bodies, points, allowed_error, table=None, distance=None, with_gradient=True):
     """Which bodies may be taken as point dipoles at each point, and what that costs.
 
     Returns ``far`` (n, b) bool, the summed field error bound (n,) [T] and the summed
     gradient error bound (n,) [T/m] of the dipole stand-ins (:func:`dipole_remainders`, orders
-    0, 1). At each point the bodies with the smallest remainders are dipoles as long as their
-    summed field error stays within ``allowed_error`` [T] (one value or one per point (n,)).
-    ``table`` (a :class:`BodyTable` of ``bodies``) and ``distance`` (the centre distances
-    (n, b)) may be passed to save work.
+    0, 1; ``with_gradient=False`` leaves the gradient out and returns None in its place,
+    for callers that need the field only). At each point the bodies with the smallest
+    remainders are dipoles as long as their summed field error stays within
+    ``allowed_error`` [T] (one value or one per point (n,)). ``table`` (a :class:`BodyTable`
+    of ``bodies``) and ``distance`` (the centre distances (n, b)) may be passed to save work.
     """
     table = body_table(bodies, table)
     if distance is None:
         distance = table.centre_distances(points)
-    remainder, gradient_remainder = dipole_remainders(table, distance, (0, 1))
+    if with_gradient:
+        remainder, gradient_remainder = dipole_remainders(table, distance, (0, 1))
+    else:
+        (remainder,), gradient_remainder = dipole_remainders(table, distance, (0,)), None
     with np.errstate(invalid="ignore"):
         # Spend the allowance greedily, smallest remainders first: a body is a dipole while
         # the running sum of the remainders stays within allowed_error (any choice is sound,
@@ -242,7 +246,7 @@ def dipole_assignment(bodies, points, allowed_error, table=None, distance=None):
             np.put_along_axis(chosen, order, running <= allowed[rows, None], axis=1)
             far[rows] = chosen
         error = np.sum(np.where(far, remainder, 0.0), axis=1)
-        gradient_error = np.sum(np.where(far, gradient_remainder, 0.0), axis=1)
+        gradient_error = None if gradient_remainder is None else np.sum(np.where(far, gradient_remainder, 0.0), axis=1)
     return far, error, gradient_error
 
 
@@ -421,7 +425,7 @@ def field_vector_with_error(bodies, points, allowed_error, table=None, distance=
     """
     points = np.asarray(points, dtype=float).reshape(-1, 3)
     table = body_table(bodies, table)
-    far, error, _ = dipole_assignment(bodies, points, allowed_error, table, distance)
+    far, error, _ = dipole_assignment(bodies, points, allowed_error, table, distance, with_gradient=False)
     return model_field(bodies, points, far, table, distance), error
 
 

@@ -320,11 +320,11 @@ def test_cones_beyond_their_cell_limit_lie_in_the_neighbours_cell():
         assert np.all(nearest < own)
 
 
-def test_model_field_sums_dipoles_the_same_way_for_few_and_many_points(monkeypatch):
-    # The far dipoles are summed in one set of (n, b, 3) arrays for small batches and body by
-    # body for large ones; both must give the model field: exact fields of the near bodies
-    # plus point dipoles (planner.physics.fields.sphere.dipole_field, Jackson eq. 5.56) of
-    # the far ones, summed here independently.
+def test_model_field_sums_dipoles_in_blocks_of_any_size(monkeypatch):
+    # The far dipoles are summed over blocks of points, in one set of (n, b, 3) arrays each;
+    # whatever the block size, the model field is the exact fields of the near bodies plus
+    # point dipoles (planner.physics.fields.sphere.dipole_field, Jackson eq. 5.56) of the far
+    # ones, summed here independently, body by body.
     from planner.physics.fields import field_of_body
     from planner.physics.fields.sphere import dipole_field
     from planner.physics.zones import bounds
@@ -339,6 +339,6 @@ def test_model_field_sums_dipoles_the_same_way_for_few_and_many_points(monkeypat
         expected[far[:, i]] += dipole_field(points[far[:, i]], table.vectors[i], table.centres[i])
         expected[~far[:, i]] += field_of_body(body, points[~far[:, i]])
     scale = np.linalg.norm(expected, axis=1)[:, None]
-    for limit in (10**9, 0):  # every batch in one set of arrays; every batch body by body
+    for limit in (10**9, 1):  # every batch in one block of points; one point per block
         monkeypatch.setattr(bounds, "_DENSE_PAIRS", limit)
         assert np.all(np.abs(bounds.model_field(bodies, points, far, table) - expected) <= 1e-12 * scale)

@@ -342,3 +342,31 @@ def test_model_field_sums_dipoles_in_blocks_of_any_size(monkeypatch):
     for limit in (10**9, 1):  # every batch in one block of points; one point per block
         monkeypatch.setattr(bounds, "_DENSE_PAIRS", limit)
         assert np.all(np.abs(bounds.model_field(bodies, points, far, table) - expected) <= 1e-12 * scale)
+
+
+def test_dipole_assignment_is_the_greedy_choice_of_the_smallest_remainders():
+    # Independent computation: per point, sort the bodies' dipole remainders and take them
+    # while their running sum stays within the allowance; the assignment must make exactly
+    # that choice (the shortcut for points where all bodies that fit alone fit together too
+    # included) and return the sum of the chosen remainders as its error.
+    from planner.physics.zones import bounds
+    rng = np.random.default_rng(5)
+    bodies = [MagnetBody("cylinder", rng.uniform(-0.08, 0.08, 3), rotation_from_axis(rng.normal(size=3)),
+                         rng.normal(size=3), diameter=0.015, height=0.008) for _ in range(8)]
+    table = bounds.BodyTable(bodies)
+    points = rng.uniform(-0.12, 0.12, (400, 3))
+    distance = table.centre_distances(points)
+    points, distance = points[np.all(distance > table.reach, axis=1)], distance[np.all(distance > table.reach, axis=1)]
+    (remainder,) = bounds.dipole_remainders(table, distance, (0,))
+    allowed = np.median(remainder, axis=1) * rng.uniform(0.5, 4.0, len(points))
+    far, error, _ = bounds.dipole_assignment(bodies, points, allowed, table, with_gradient=False)
+    for k in range(len(points)):
+        chosen, running = np.zeros(len(bodies), bool), 0.0
+        for i in np.argsort(remainder[k], kind="stable"):
+            if running + remainder[k, i] <= allowed[k]:
+                running += remainder[k, i]
+                chosen[i] = True
+            else:
+                break
+        assert np.array_equal(far[k], chosen)
+        assert error[k] == pytest.approx(running, rel=1e-12, abs=0)

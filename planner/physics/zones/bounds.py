@@ -232,11 +232,12 @@ def dipole_assignment(bodies, points, allowed_error, table=None, distance=None, 
         # the running sum of the remainders stays within allowed_error (any choice is sound,
         # as the sum is the error bound returned; this one leaves the fewest bodies to
         # evaluate exactly, about half as many as an equal share per body).
-        # Where all the remainders together fit, every body is a dipole (the same choice,
-        # without sorting).
+        # A body whose remainder alone exceeds the allowance is never chosen; where the
+        # others' remainders together fit, every one of them is (the same choice, without
+        # sorting: beside a magnet, the magnet itself is often the only exact body).
         allowed = np.broadcast_to(np.asarray(allowed_error, dtype=float), (len(remainder),))
-        far = np.ones(remainder.shape, dtype=bool)
-        rows = np.flatnonzero(~(np.sum(remainder, axis=1) <= allowed))
+        far = remainder <= allowed[:, None]
+        rows = np.flatnonzero(~(np.sum(np.where(far, remainder, 0.0), axis=1) <= allowed))
         if len(rows):
             some = remainder[rows]
             order = np.argsort(some, axis=1, kind="stable")

@@ -182,7 +182,8 @@ def clipped_caps(axes, half_angles, normals, heights):
     angle = np.arccos(np.clip(np.minimum(a * cosine - b * sine, a * cosine + b * towards), -1.0, 1.0))
     angle = angle * (1 + 1e-9) + 1e-12
     smaller = cut & (angle < half_angles)
-    centre = a[:, None] * axes + b[:, None] * np.nan_to_num(across)
+    with np.errstate(invalid="ignore"):  # NaN only in rows that are not cut, which keep their cap
+        centre = a[:, None] * axes + b[:, None] * across
     beyond = np.cos(np.minimum(np.arccos(np.clip(tilt, -1, 1)) + half_angles, np.pi)) > heights
     return np.where(smaller[:, None], centre, axes), np.where(smaller, angle, half_angles), beyond
 
@@ -246,7 +247,7 @@ def _dipole_cap_holds(model: LocalModel, moment, radius, axes, half_angles, rest
     with np.errstate(invalid="ignore", over="ignore"):
         bound = (np.sqrt(np.sum(p0 * p0, axis=1) + 2 * linear + step**2) + quadratic
                  + 0.5 * rest_second * rho**2 + model.error + model.jacobian_error * rho)
-    return np.nan_to_num(bound, nan=np.inf) < threshold * (1 - 1e-9)
+    return bound < threshold * (1 - 1e-9)  # False where the bound is NaN or infinite
 
 
 def _largest_first_order(a, b, half_angles):

@@ -90,8 +90,15 @@ class BodyTable:
 
     def centre_distances(self, points):
         """|x - c_i| (n, b) [m]."""
-        offset = points[:, None, :] - self.centres[None]
-        return np.sqrt(np.einsum("nbk,nbk->nb", offset, offset))
+        # coordinate by coordinate on (n, b) arrays: about three times faster than an
+        # einsum over the (n, b, 3) offsets, which is called for every batch of points
+        square = points[:, 0:1] - self.centres[:, 0]
+        square *= square
+        for axis in (1, 2):
+            along = points[:, axis:axis + 1] - self.centres[:, axis]
+            along *= along
+            square += along
+        return np.sqrt(square, out=square)
 
     def subset(self, indices):
         """The table of the bodies ``indices`` (in that order), sharing this one's series tables."""

@@ -139,6 +139,7 @@ class SeriesFactors:
                 continue
             rows.append(len(tables) - 1)
         self.row = np.array(rows, dtype=float)
+        self._own_rows_usable = None
         self.scale = self.cells / self.max_ratio
         # per order, all bodies' rows end to end, then one sentinel row of inf
         table = np.array(tables).reshape(len(tables), 4, self.cells + 1)
@@ -151,10 +152,15 @@ class SeriesFactors:
         part = object.__new__(SeriesFactors)
         part.__dict__.update(self.__dict__)
         part.row = self.row[np.asarray(indices, dtype=np.intp)]
+        part._own_rows_usable = None
         return part
 
     def usable(self, rows):
         """Whether any of these bodies (rows, as gathered per point) has a series."""
+        if rows is self.row:  # this table's own bodies, asked for every batch: kept once known
+            if self._own_rows_usable is None:
+                self._own_rows_usable = self.sentinel > 0 and bool(np.any(rows >= 0))
+            return self._own_rows_usable
         return self.sentinel > 0 and bool(np.any(rows >= 0))
 
     def index(self, rows, ratio):
@@ -166,8 +172,9 @@ class SeriesFactors:
         with np.errstate(invalid="ignore"):
             position = ratio * self.scale
             fits = (rows >= 0) & (position <= self.cells)
-        node = np.ceil(np.where(fits, position, 0.0))
-        return np.where(fits, rows * (self.cells + 1) + node, self.sentinel).astype(np.intp)
+            node = rows * (self.cells + 1) + np.ceil(position)
+        node[~fits] = self.sentinel
+        return node.astype(np.intp)
 
 
 def body_table(bodies, table=None):

@@ -287,7 +287,7 @@ def dipole_remainders(table, distance, orders):
     results = []
     with np.errstate(invalid="ignore", divide="ignore", over="ignore"):
         outside = distance > reach * (1 + 1e-9)
-        inverse_gap = np.where(outside, 1.0 / np.where(outside, distance - shift, 1.0), np.nan)
+        inverse_gap = np.where(outside, 1.0 / (distance - shift), np.nan)  # divisions inside dropped
         inverse = 1.0 / distance
         with_series = series.usable(series.row)
         if with_series:

@@ -49,12 +49,12 @@ pole) it falls towards the rim, and the bracket peaks at sqrt(a^2 + b^2) - a (at
 tan theta = b / a) or at theta = delta if that comes first; for a <= 0 it is
 |a| (1 - cos delta) + b sin delta. The own dipole's quadratic term is
 |3 k (m.d) d / R^3| <= 3 k |d| [(1 - cos delta) |m.n| + sin delta |m_across|] / R^3, small
-near the pole, where d is nearly across m. (Taking |a| and |m| |d| instead proved 7 % fewer
-caps on the 30-magnet benchmark.)
+near the pole, where d is nearly across m. (With |a| and |m| |d| in their place, the
+30-magnet benchmark needed 7 % more caps.)
 Unlike a bound through ||D^2 B|| over the whole ball, which carries the steep fall of the
 field along the radius (about 24 k m / R^5 against a field of 2 k m / R^3), this one sees
 that the field hardly changes *across* the radius near its strongest direction: a cap of
-9 degrees is proven where the sphere's largest |B| is 12 % below the threshold. The model's
+9 degrees about a lone dipole's pole is proven at 4.5 % above the pole field. The model's
 errors at y are added (|B| error, and the Jacobian error times rho). Beside a magnet, where
 the dipole remainder has no useful bound, the general second-order bound of
 :mod:`planner.physics.zones.certify` is tried as well; either proves a cap.

@@ -37,6 +37,15 @@ def random_directions(count):
     return unit / np.linalg.norm(unit, axis=1)[:, None]
 
 
+def directions_in_cap(axis, half_angle, count):
+    """``count`` random unit vectors within ``half_angle`` [rad] of the unit ``axis``."""
+    turn = random_directions(count)
+    turn -= np.outer(turn @ axis, axis)
+    turn /= np.linalg.norm(turn, axis=1)[:, None]
+    angle = half_angle * np.sqrt(RNG.random((count, 1)))
+    return np.cos(angle) * axis + np.sin(angle) * turn
+
+
 def field_size(bodies, points):
     return np.linalg.norm(field_of_bodies(bodies, points), axis=1)
 
@@ -126,12 +135,7 @@ def test_caps_proven_with_the_own_dipole_hold_under_brute_force():
                                     threshold)
     assert 0.2 < holds.mean() < 0.9
     for axis, half in zip(axes[inside][holds], half_angles[inside][holds]):
-        turn = random_directions(300)
-        turn -= np.outer(turn @ axis, axis)
-        turn /= np.linalg.norm(turn, axis=1)[:, None]
-        angle = half * np.sqrt(RNG.random((300, 1)))
-        cap = centre + radius * (np.cos(angle) * axis + np.sin(angle) * turn)
-        outcome_caps.append(field_size(bodies, cap).max())
+        outcome_caps.append(field_size(bodies, centre + radius * directions_in_cap(axis, half, 300)).max())
     assert max(outcome_caps) < threshold
 
 
@@ -183,11 +187,7 @@ def test_caps_near_a_disc_are_proven_with_its_rest_bounded_along_the_chords():
     holds = shell._dipole_cap_holds(model, table.vectors[0], radius, axes, half_angles, rest, threshold)
     assert holds.mean() > 0.6
     for axis, half in zip(axes[holds], half_angles[holds]):
-        turn = random_directions(200)
-        turn -= np.outer(turn @ axis, axis)
-        turn /= np.linalg.norm(turn, axis=1)[:, None]
-        angle = half * np.sqrt(RNG.random((200, 1)))
-        assert field_size([disc], radius * (np.cos(angle) * axis + np.sin(angle) * turn)).max() < threshold
+        assert field_size([disc], radius * directions_in_cap(axis, half, 200)).max() < threshold
 
 
 def test_flat_patches_proven_hold_under_brute_force():

@@ -117,3 +117,39 @@ def rounds(bodies, thresholds):
     first = [all_magnets.caps_first(bodies, i, thresholds) for i in range(len(bodies))]
     radii = np.array([proof.proven for proof in first])
     return first, [all_magnets.faces_next(bodies, i, thresholds, first[i], radii) for i in range(len(bodies))]
+
+
+def test_magnet_groups_are_runs_of_neighbours_covering_every_magnet_once():
+    # Every magnet in exactly one group; each group a run of consecutive magnets along the
+    # setup's longest extent; at least six groups (or one per magnet), the strongest first.
+    from planner.physics.zones.table import magnet_groups
+    rng = np.random.default_rng(4)
+    for count in (1, 4, 13, 31):
+        bodies = [MagnetBody("cylinder", [x, rng.uniform(-0.1, 0.1), 0.0], np.eye(3), [0, 0, rng.uniform(0.3, 1.4)],
+                             diameter=0.01, height=0.005) for x in rng.uniform(-1.0, 1.0, count)]
+        groups = magnet_groups(bodies)
+        assert sorted(i for group in groups for i in group) == list(range(count))
+        assert len(groups) == min(count, max(6, -(-count // 5)))
+        rank = np.argsort(np.argsort([body.center[0] for body in bodies], kind="stable"))
+        for group in groups:
+            assert sorted(rank[group]) == list(range(min(rank[group]), max(rank[group]) + 1))
+        strength = [sum(float(np.linalg.norm(bodies[i].moment)) for i in group) for group in groups]
+        assert strength == sorted(strength, reverse=True)
+
+
+def test_magnets_proven_in_one_group_match_one_at_a_time(monkeypatch):
+    # A group's proofs share their steps (shell.prove_many, with the bodies any of them
+    # needs); each magnet's distances must be what it gets in a group of its own, up to the
+    # bodies then modelled rather than bounded (both proven: within 5 % or 5 mm of each
+    # other), and beyond them no sampled point of its cell reaches the threshold (exact field).
+    from planner.physics.zones import table as table_module
+    bodies, thresholds = bench(), np.array([0.5e-3, 3e-3, 20e-3])
+    alone = keep_out_table(bodies, thresholds, workers=1)
+    monkeypatch.setattr(table_module, "LEAST_GROUPS", 1)
+    monkeypatch.setattr(table_module, "GROUP_MAGNETS", 3)
+    assert len(table_module.magnet_groups(bodies)) == 1  # all three in one group
+    together = keep_out_table(bodies, thresholds, workers=1)
+    assert np.all(np.abs(together - alone) <= np.maximum(0.05 * np.minimum(together, alone), 5e-3))
+    for index in range(len(bodies)):
+        for k, threshold in enumerate(thresholds):
+            assert largest_field_beyond(bodies, index, together[index, k], RNG) < threshold

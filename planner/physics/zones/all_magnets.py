@@ -22,11 +22,12 @@ not at all where that magnet's distance comes from elsewhere (its start radius, 
 walk, which covers its whole cell beyond it): about four fifths of the face patches that
 the magnets proved one by one lie beyond the neighbour's radius.
 
-**Order of the work.** (1) Per magnet, in worker processes: start radii, the points found at
+**Order of the work.** (1) Per magnet, in worker processes (a group of neighbours per call,
+:func:`caps_first_many`, whose proofs share their steps): start radii, the points found at
 each threshold, and the caps of its sphere at the radius just outside them (retrying
 farther out as on its own); the cone walk where the sphere proof does not apply. (2) Per
-magnet, with every radius of step 1 known: the face between each neighbour with a larger
-radius, between the two. Where that fails (a point at the threshold, or patches that cannot
+magnet (:func:`faces_next_many`), with every radius of step 1 known: the face between each
+neighbour with a larger radius, between the two. Where that fails (a point at the threshold, or patches that cannot
 be settled), the magnet tries again farther out, caps and faces (with the same limits).
 (3) Here, in this process: a magnet whose radius grew in step 2 from R to R' leaves each
 neighbour l with R_l < R' a piece of face between max(R_l, R) and R' that no proof has
@@ -51,10 +52,10 @@ from typing import NamedTuple
 import numpy as np
 
 from planner.physics.zones import bounds, shell
-from planner.physics.zones.keep_out import (_checked, _finish, _first_tries, _next_try, _prove_all, _refine,
-                                            _starts_and_hits)
+from planner.physics.zones.keep_out import (_checked, _finish, _first_tries, _next_try, _prove_all, _prove_all_many,
+                                            _refine, _starts_and_hits)
 
-__all__ = ["MagnetProof", "caps_first", "faces_next", "settle"]
+__all__ = ["MagnetProof", "caps_first", "caps_first_many", "faces_next", "faces_next_many", "settle"]
 
 
 class MagnetProof(NamedTuple):
@@ -79,28 +80,51 @@ class MagnetProof(NamedTuple):
 
 def caps_first(bodies, index: int, thresholds) -> MagnetProof:
     """Step 1 of the module docstring for body ``index``: radii proven on the sphere only."""
-    thresholds = _checked(bodies, index, thresholds)
+    return caps_first_many(bodies, [index], thresholds)[0]
+
+
+def caps_first_many(bodies, indices, thresholds) -> list[MagnetProof]:
+    """:func:`caps_first` for the bodies ``indices``; their sphere proofs share the steps of
+    :func:`~planner.physics.zones.shell.prove_many` (a few large numpy calls for all of them)."""
     table = bounds.body_table(bodies)
-    starts, hits = _starts_and_hits(bodies, index, thresholds, table)
-    best, radius = _first_tries(bodies, index, hits)
-    proven, best, radius, from_shell = _prove_all(bodies, index, thresholds, starts, table, best, radius,
-                                                  phases=("caps",), lower_outer=False)
-    proven = _walk_unproven(bodies, index, thresholds, starts, table, hits, proven)
-    return MagnetProof(starts, hits, best, radius, proven, from_shell, np.full(len(thresholds), np.nan))
+    searched = []
+    for index in indices:
+        thresholds = _checked(bodies, index, thresholds)
+        starts, hits = _starts_and_hits(bodies, index, thresholds, table)
+        searched.append((index, starts, hits) + _first_tries(bodies, index, hits))
+    proofs = _prove_all_many(bodies, [(index, thresholds, starts, best, radius, None)
+                                      for index, starts, hits, best, radius in searched],
+                             table, phases=("caps",), lower_outer=False)
+    result = []
+    for (index, starts, hits, _, _), (proven, best, radius, from_shell) in zip(searched, proofs):
+        proven = _walk_unproven(bodies, index, thresholds, starts, table, hits, proven)
+        result.append(MagnetProof(starts, hits, best, radius, proven, from_shell, np.full(len(thresholds), np.nan)))
+    return result
 
 
 def faces_next(bodies, index: int, thresholds, proof: MagnetProof, radii) -> MagnetProof:
     """Step 2 of the module docstring for body ``index``, with every magnet's ``radii`` (b, k) [m]
     from :func:`caps_first`; also finishes the distances (step 4)."""
+    return faces_next_many(bodies, [index], thresholds, [proof], radii)[0]
+
+
+def faces_next_many(bodies, indices, thresholds, proofs, radii) -> list[MagnetProof]:
+    """:func:`faces_next` for the bodies ``indices`` with their ``proofs``; their face proofs
+    share the steps of :func:`~planner.physics.zones.shell.prove_many`."""
     thresholds = np.atleast_1d(np.asarray(thresholds, dtype=float))
     table = bounds.body_table(bodies)
-    pending = np.flatnonzero(proof.shell)
-    outcomes = shell.prove_all_beyond(bodies, index, [(proof.proven[k], proof.starts[k], thresholds[k], radii[:, k])
-                                                      for k in pending], table, phases=("faces",))
-    failed = [(k, outcome) for k, outcome in zip(pending, outcomes) if not outcome.proven]
-    if failed:
-        proof = _try_again(bodies, index, thresholds, proof, failed, radii, table)
-    return proof._replace(distances=_finish(bodies, index, thresholds, proof.starts, proof.proven, table, proof.hits))
+    pending = [np.flatnonzero(proof.shell) for proof in proofs]
+    jobs = [(index, [(proof.proven[k], proof.starts[k], thresholds[k], radii[:, k]) for k in ks])
+            for index, proof, ks in zip(indices, proofs, pending)]
+    result = []
+    for index, proof, ks, outcomes in zip(indices, proofs, pending,
+                                          shell.prove_many(bodies, jobs, table, phases=("faces",))):
+        failed = [(k, outcome) for k, outcome in zip(ks, outcomes) if not outcome.proven]
+        if failed:
+            proof = _try_again(bodies, index, thresholds, proof, failed, radii, table)
+        result.append(proof._replace(distances=_finish(bodies, index, thresholds, proof.starts, proof.proven, table,
+                                                       proof.hits)))
+    return result
 
 
 def _walk_unproven(bodies, index, thresholds, starts, table, hits, proven):

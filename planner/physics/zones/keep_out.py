@@ -512,36 +512,65 @@ def _prove_all(bodies, index, thresholds, starts, table, best, radius, phases=("
     Returns the radii (k,), ``best`` and ``radius`` as they ended (copies), and which radii
     the shell proof gave (True) rather than the outer radius (False; NaN counts False).
     """
-    best, radius = best.copy(), radius.copy()
-    result = np.full(len(thresholds), np.nan)
-    shell_proven = np.zeros(len(thresholds), bool)
-    open_ = np.ones(len(thresholds), bool)
-    for _ in range(PROOF_ATTEMPTS):
-        outer = starts.copy()
+    return _prove_all_many(bodies, [(index, thresholds, starts, best, radius, limits)], table, phases,
+                           lower_outer)[0]
+
+
+class _Tries:
+    """One magnet's thresholds in :func:`_prove_all_many`: where each stands (arrays (k,))."""
+
+    def __init__(self, index, thresholds, starts, best, radius, limits):
+        self.index, self.thresholds, self.starts, self.limits = index, thresholds, starts, limits
+        self.best, self.radius = best.copy(), radius.copy()
+        self.result = np.full(len(thresholds), np.nan)
+        self.shell_proven = np.zeros(len(thresholds), bool)
+        self.open = np.ones(len(thresholds), bool)
+
+    def tasks(self, table, lower_outer):
+        """The outer radii (k,) [m] and the positions of the thresholds to prove now; settles
+        the others (outer radius reached, or magnets in the cell)."""
+        thresholds, result = self.thresholds, self.result
+        outer = self.starts.copy()
         for k in range(len(thresholds)):
             lower = (thresholds < thresholds[k]) & np.isfinite(result)
             if lower_outer and lower.any():
                 outer[k] = min(outer[k], float(np.min(result[lower])))
         tasks = []
-        for k in np.flatnonzero(open_):
-            if radius[k] >= outer[k]:
-                result[k], open_[k] = outer[k], False
-            elif not shell.source_free(table, index, radius[k]):
-                open_[k] = False
+        for k in np.flatnonzero(self.open):
+            if self.radius[k] >= outer[k]:
+                result[k], self.open[k] = outer[k], False
+            elif not shell.source_free(table, self.index, self.radius[k]):
+                self.open[k] = False
             else:
                 tasks.append(k)
-        if not tasks:
+        return outer, tasks
+
+
+def _prove_all_many(bodies, magnets, table, phases=("caps", "faces"), lower_outer=True):
+    """:func:`_prove_all` for several magnets at once: ``magnets`` a list of (index, thresholds,
+    starts, best, radius, limits). Each try proves the open thresholds of all of them in one
+    call of :func:`~planner.physics.zones.shell.prove_many`, whose steps then share their
+    evaluations of the field model. Returns, per magnet, what :func:`_prove_all` returns."""
+    tries = [_Tries(*magnet) for magnet in magnets]
+    for _ in range(PROOF_ATTEMPTS):
+        jobs, pending = [], []
+        for magnet in tries:
+            outer, tasks = magnet.tasks(table, lower_outer)
+            if tasks:
+                jobs.append((magnet.index, [(magnet.radius[k], outer[k], magnet.thresholds[k],
+                                             None if magnet.limits is None else magnet.limits[k]) for k in tasks]))
+                pending.append((magnet, outer, tasks))
+        if not jobs:
             break
-        outcomes = shell.prove_all_beyond(
-            bodies, index, [(radius[k], outer[k], thresholds[k], None if limits is None else limits[k]) for k in tasks],
-            table, phases)
-        for k, outcome in zip(tasks, outcomes):
-            if outcome.proven:
-                result[k], open_[k], shell_proven[k] = radius[k], False, True
-            else:
-                best[k], radius[k] = _next_try(bodies, index, outcome, outer[k], thresholds[k], table, best[k],
-                                               radius[k])
-    return result, best, radius, shell_proven
+        for (magnet, outer, tasks), outcomes in zip(pending, shell.prove_many(bodies, jobs, table, phases)):
+            for k, outcome in zip(tasks, outcomes):
+                if outcome.proven:
+                    magnet.result[k], magnet.open[k], magnet.shell_proven[k] = magnet.radius[k], False, True
+                else:
+                    magnet.best[k], magnet.radius[k] = _next_try(bodies, magnet.index, outcome, outer[k],
+                                                                 magnet.thresholds[k], table, magnet.best[k],
+                                                                 magnet.radius[k])
+    return [(magnet.result, magnet.best, magnet.radius, magnet.shell_proven) for magnet in tries]
 
 
 def _next_try(bodies, index, outcome, outer, threshold, table, best, radius):

@@ -83,7 +83,7 @@ from planner.physics.zones.certify import LocalModel, local_model, patch_below
 from planner.physics.zones.sampling import child_indices, icosahedron_cones
 
 __all__ = ["ShellOutcome", "source_free", "clipped_caps", "dipole_jacobian_on_sphere", "prove_beyond",
-           "prove_all_beyond"]
+           "prove_all_beyond", "prove_many"]
 
 IGNORED_SHARE = 0.01  # of the threshold, for the bodies left out of the per-patch work
 MODEL_SHARE = 1e-2  # of the threshold, for the dipole stand-ins' error at each patch centre
@@ -215,17 +215,19 @@ def dipole_jacobian_on_sphere(moment, radius, axes):
 def _dipole_cap_holds(model: LocalModel, moment, radius, axes, half_angles, rest_second, threshold):
     """The cap bound of the module docstring, with the magnet's own dipole taken exactly.
 
-    ``moment`` (3,) [A m^2]; ``radius`` [m] and ``threshold`` [T]: one value or one per cap; ``rest_second``
-    (n,) [T/m^2]: a bound on ||D^2 V|| over each cap's ball (the own magnet minus its
-    dipole, and the other bodies). Returns (n,) bool.
+    ``moment`` [A m^2]: the magnet's, (3,), or each cap's own magnet's, (n, 3); ``radius`` [m]
+    and ``threshold`` [T]: one value or one per cap; ``rest_second`` (n,) [T/m^2]: a bound on
+    ||D^2 V|| along each cap's chords (the own magnet minus its dipole, and the other
+    bodies). Returns (n,) bool.
     """
     n = axes
     radius = np.broadcast_to(np.asarray(radius, dtype=float), half_angles.shape)
+    moment = np.broadcast_to(np.asarray(moment, dtype=float), n.shape)
     chord = 2 * np.sin(half_angles / 2)
     rho = radius * chord
     cosine, sine = np.cos(half_angles), np.sin(half_angles)
     scale = 3 * K / radius**3
-    along_moment = n @ moment
+    along_moment = np.sum(n * moment, axis=1)
     # A = R DV(y)^T + 3 k (n m^T + (m.n) I) / R^3 with DV the model Jacobian less the own
     # dipole's, 3 k [(m.n)(I - 5 n n^T) + n m^T + m n^T] / R^4 at y: it comes to
     # A = R DB(y) + (3 k / R^3) (5 (m.n) n - m) n^T, DB[i, j] = dB_i/dx_j = jacobian[j, i].
@@ -242,7 +244,7 @@ def _dipole_cap_holds(model: LocalModel, moment, radius, axes, half_angles, rest
     across_norm = radius * np.sqrt(0.5 * (g11 + g22) + np.sqrt(0.25 * (g11 - g22)**2 + g12**2))
     linear = _largest_first_order(np.sum(p0 * a_n, axis=1), np.linalg.norm(at_p_across, axis=1), half_angles)
     step = (1 - cosine) * np.linalg.norm(a_n, axis=1) + sine * across_norm
-    moment_across = np.sqrt(np.maximum(float(moment @ moment) - along_moment**2, 0.0))
+    moment_across = np.sqrt(np.maximum(np.sum(moment * moment, axis=1) - along_moment**2, 0.0))
     quadratic = scale * chord * ((1 - cosine) * np.abs(along_moment) + sine * moment_across)
     with np.errstate(invalid="ignore", over="ignore"):
         bound = (np.sqrt(np.sum(p0 * p0, axis=1) + 2 * linear + step**2) + quadratic
@@ -262,10 +264,10 @@ def _largest_first_order(a, b, half_angles):
 class _Task:
     """One radius and threshold to prove on the caps or on the face patches, and how far it has got."""
 
-    def __init__(self, radius, outer, threshold, left_out, phase, cell, limits=None):
+    def __init__(self, radius, outer, threshold, left_out, phase, cell, limits=None, own=0):
         self.radius, self.outer, self.threshold, self.left_out = radius, outer, threshold, left_out
         self.proof_threshold = threshold - left_out
-        self.phase, self.outcome = phase, None
+        self.phase, self.outcome, self.cell, self.own = phase, None, cell, own
         if phase == "caps":
             self.level = FIRST_CAP_LEVEL
             self.triangles = np.arange(20 * 4**FIRST_CAP_LEVEL)  # indices into the level's tiling
@@ -275,9 +277,10 @@ class _Task:
             if self.cells is None:
                 self.outcome = _PROVEN
 
-    def patches(self, cell):
-        """This task's patches of the current phase that reach into the cell, as a dict of
+    def patches(self):
+        """This task's patches of the current phase that reach into its cell, as a dict of
         arrays (advancing past phases with nothing left to prove); None once decided."""
+        cell = self.cell
         while self.outcome is None:
             if self.phase == "caps":
                 keep, axes, half_angles = _caps_in_cell(cell, self.radius,
@@ -310,7 +313,7 @@ class _Task:
                 self.outcome = _PROVEN
         return None
 
-    def settle(self, cell, points, witness, hopeless, holds):
+    def settle(self, points, witness, hopeless, holds):
         """Take the verdicts on this task's patches: decide, or split the open ones."""
         if witness.any():
             self.outcome = ShellOutcome(False, points[witness], _NONE)
@@ -433,61 +436,81 @@ def prove_all_beyond(bodies, index: int, tasks, table: BodyTable | None = None,
     (:func:`planner.physics.zones.table.keep_out_table`). ``phases``: "caps" (the sphere),
     "faces", or both in turn (the faces only of the tasks whose caps were proven).
     """
+    return prove_many(bodies, [(index, tasks)], table, phases)[0]
+
+
+def prove_many(bodies, jobs, table: BodyTable | None = None, phases=("caps", "faces")) -> list[list[ShellOutcome]]:
+    """:func:`prove_all_beyond` for several magnets at once: ``jobs`` a list of (index, tasks);
+    returns the outcomes of each job's tasks.
+
+    Each step of the proofs is one evaluation of the field model for the patches of every
+    magnet's tasks (in groups of tasks that need about as many bodies), so a worker with
+    several magnets makes a few large numpy calls where one magnet at a time would make
+    many small ones, whose fixed cost dominated.
+    """
     table = body_table(bodies, table)
-    cell = Cell(table.centres, index)
-    tasks = [tuple(task) + (None,) * (4 - len(task)) for task in tasks]
-    outcomes = [_PROVEN] * len(tasks)
+    entries = []  # (job, position, index, cell, task)
+    for job, (index, tasks) in enumerate(jobs):
+        cell = Cell(table.centres, index)
+        for position, task in enumerate(tasks):
+            entries.append((job, position, index, cell, tuple(task) + (None,) * (4 - len(task))))
+    outcomes = [[_PROVEN] * len(tasks) for _, tasks in jobs]
     if "caps" in phases:
-        outcomes = _prove_phase(bodies, index, tasks, table, cell, "caps")
+        for (job, position, *_), outcome in zip(entries, _prove_phase(bodies, table, entries, "caps")):
+            outcomes[job][position] = outcome
     if "faces" in phases:
-        faces = [k for k, outcome in enumerate(outcomes) if outcome.proven]
-        for k, outcome in zip(faces, _prove_phase(bodies, index, [tasks[k] for k in faces], table, cell, "faces")):
-            outcomes[k] = outcome
+        faces = [entry for entry in entries if outcomes[entry[0]][entry[1]].proven]
+        for (job, position, *_), outcome in zip(faces, _prove_phase(bodies, table, faces, "faces")):
+            outcomes[job][position] = outcome
     return outcomes
 
 
-def _prove_phase(bodies, index, tasks, table, cell, phase):
-    """The caps (``phase`` "caps") or the face patches ("faces") of every task (radius, outer,
-    threshold, limits), in groups of tasks that need about as many bodies modelled."""
-    bounds = [cell_field_bounds(table, index, task[0], on_sphere=phase == "caps") for task in tasks]
-    for bound in bounds:
+def _prove_phase(bodies, table, entries, phase):
+    """The caps (``phase`` "caps") or the face patches ("faces") of every entry (job, position,
+    magnet index, its cell, task (radius, outer, threshold, limits)), in groups of tasks that
+    need about as many bodies modelled."""
+    bounds, needed = [], []
+    for _, _, index, _, task in entries:
+        bound = cell_field_bounds(table, index, task[0], on_sphere=phase == "caps")
         bound[index] = np.inf  # the magnet itself is always modelled
-    needed = []
-    for bound, task in zip(bounds, tasks):
         order = np.argsort(bound, kind="stable")
+        bounds.append(bound)
         needed.append(set(order[np.cumsum(bound[order]) > IGNORED_SHARE * task[2]].tolist()) | {index})
-    outcomes = [None] * len(tasks)
+    outcomes = [None] * len(entries)
     # Tasks that need about as many bodies share their evaluations; a task that needs far
     # fewer would pay for the others' bodies at every point, so it goes in a group of its own.
-    by_size = sorted(range(len(tasks)), key=lambda k: -len(needed[k]))
+    by_size = sorted(range(len(entries)), key=lambda k: -len(needed[k]))
     while by_size:
         largest = len(needed[by_size[0]])
         group = by_size[:1] + [k for k in by_size[1:] if len(needed[k]) >= GROUP_SHARE * largest]
         by_size = [k for k in by_size if k not in group]
-        kept = set().union(*(needed[k] for k in group))
-        kept = np.array([index] + sorted(kept - {index}), dtype=np.intp)
+        first = entries[group[0]][2]
+        kept = np.array([first] + sorted(set().union(*(needed[k] for k in group)) - {first}), dtype=np.intp)
+        column = {int(body): position for position, body in enumerate(kept)}
         left_out = np.ones(len(bodies), bool)
         left_out[kept] = False
-        work = [_Task(*tasks[k][:3], float(np.sum(bounds[k][left_out])), phase, cell, tasks[k][3]) for k in group]
-        for k, outcome in zip(group, _prove_tasks([bodies[i] for i in kept], table.subset(kept), cell, work)):
+        work = []
+        for k in group:
+            _, _, index, cell, task = entries[k]
+            work.append(_Task(*task[:3], float(np.sum(bounds[k][left_out])), phase, cell, task[3], column[index]))
+        for k, outcome in zip(group, _prove_tasks([bodies[i] for i in kept], table.subset(kept), work)):
             outcomes[k] = outcome
     return outcomes
 
 
-def _prove_tasks(members, part, cell, work):
-    """Run the tasks ``work`` to their outcomes; ``members`` the bodies modelled (the magnet
-    first) and ``part`` their table."""
-    own = part.subset([0])
+def _prove_tasks(members, part, work):
+    """Run the tasks ``work`` to their outcomes; ``members`` the bodies modelled and ``part``
+    their table (each task's magnet at its column ``own``)."""
     while True:
-        open_ = [(task, task.patches(cell)) for task in work]
+        open_ = [(task, task.patches()) for task in work]
         open_ = [(task, patches) for task, patches in open_ if patches is not None]
         if not open_:
             return [task.outcome for task in work]
         sizes = [len(patches["points"]) for _, patches in open_]
         batch = {key: np.concatenate([patches[key] for _, patches in open_]) for key in open_[0][1]}
         per_task = lambda name: np.repeat([getattr(task, name) for task, _ in open_], sizes)  # noqa: E731
-        threshold, proof_threshold, left, radius = (per_task(name) for name in
-                                                    ("threshold", "proof_threshold", "left_out", "radius"))
+        threshold, proof_threshold, left, radius, own = (per_task(name) for name in
+                                                         ("threshold", "proof_threshold", "left_out", "radius", "own"))
         points, axes, chord, cap = batch["points"], batch["axes"], batch["chord"], batch["cap"]
         model = local_model(members, points, MODEL_SHARE * threshold, part)
         size = np.sqrt(np.sum(model.field**2, axis=1))
@@ -500,9 +523,11 @@ def _prove_tasks(members, part, cell, work):
         holds = np.zeros(len(points), bool)
         if cap.any():
             rows = np.flatnonzero(cap)
-            rest_second = (np.sum(second_each[rows, 1:], axis=1)
-                           + dipole_remainder(own, (radius[rows] * np.cos(0.5 * batch["half_angles"][rows]))[:, None], 2)[:, 0])
-            holds[rows] = _dipole_cap_holds(model.take(rows), part.vectors[0], radius[rows],
+            mine = own[rows]
+            others = np.arange(len(members))[None, :] != mine[:, None]
+            rest_second = (np.sum(np.where(others, second_each[rows], 0.0), axis=1)
+                           + _own_remainder(part, mine, radius[rows] * np.cos(0.5 * batch["half_angles"][rows])))
+            holds[rows] = _dipole_cap_holds(model.take(rows), part.vectors[mine], radius[rows],
                                             axes[rows], batch["half_angles"][rows], rest_second,
                                             proof_threshold[rows])
         rows = np.flatnonzero(~holds)  # faces, and caps beside the magnet: the general bound
@@ -513,5 +538,15 @@ def _prove_tasks(members, part, cell, work):
         start = 0
         for (task, _), count in zip(open_, sizes):
             span = slice(start, start + count)
-            task.settle(cell, points[span], witness[span], hopeless[span], holds[span])
+            task.settle(points[span], witness[span], hopeless[span], holds[span])
             start += count
+
+
+def _own_remainder(part, columns, distance):
+    """The dipole remainder of order 2 [T/m^2] of body ``columns[i]`` of ``part`` at ``distance[i]`` [m]
+    (:func:`~planner.physics.zones.bounds.dipole_remainder`), each point's own magnet."""
+    result = np.empty(len(columns))
+    for column in np.unique(columns):
+        rows = columns == column
+        result[rows] = dipole_remainder(part.subset([column]), distance[rows, None], 2)[:, 0]
+    return result

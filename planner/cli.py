@@ -53,7 +53,7 @@ def guarded(command):
 
 
 #: Magnets from which a setup's keep-out distances take long enough to say so first
-#: (about 1 s for 30 magnets on a 2-core machine, benchmarks/zones.py; more when they are close).
+#: (about 0.6 s for 30 magnets on a 2-core machine, benchmarks/zones.py; more when they are close).
 MANY_MAGNETS = 20
 
 
@@ -63,7 +63,7 @@ def long_work_notice(setup) -> str | None:
     if count < MANY_MAGNETS:
         return None
     return (f"benchplan: working out the keep-out distances of {count} magnets; "
-            "a setup this size takes a second or more (about 1 s for 30 magnets on a 2-core machine)")
+            "a setup this size takes about a second (0.6 s for 30 magnets on a 2-core machine)")
 
 
 def announce_long_work(setup) -> None:

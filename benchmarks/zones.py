@@ -1,27 +1,33 @@
-"""Speed of the zone calculations on an invented 30-magnet bench layout (run by hand).
+"""Speed of the zone calculations on the largest example setup and on an invented 30-magnet bench
+layout (run by hand).
 
     python benchmarks/zones.py [--magnets 30] [--resolution 400]
 
-Times (1) keep-out distances for every magnet at the default thresholds, read from
-hazards/thresholds.yaml (0.1, 0.5, 1, 2, 3, 6 and 400 mT when this was written), as the program
-computes them (``keep_out_table``: one worker process per core;
-``--workers 1`` for one core), and (2) a plan map of the total field on a resolution x resolution grid with its
-contours at the same thresholds. Targets: under 1 s each. Each is run ``--repeat`` times
-(default 3): the first run is cold (the bodies' bound tables are built), and this machine's
-speed drifts, so the best and the median are printed too. The layout is invented for the
-benchmark: discs and blocks of N35-N52 and ferrite spaced along a 2 m bench.
+Times (1) keep-out distances for every magnet of the example in setups/ with the most magnets,
+at the thresholds in force for it (its site rules applied), as ``assess`` and ``report`` work
+them out (``planner.calculations.keep_out.keep_out_distances``); (2) the same for the 30-magnet
+bench at the default thresholds, read from hazards/thresholds.yaml (0.1, 0.5, 1, 2, 3, 6 and
+400 mT when this was written), as the program computes them (``keep_out_table``: one worker
+process per core; ``--workers 1`` for one core); and (3) a plan map of the bench's total field
+on a resolution x resolution grid with its contours at the same thresholds. Targets: under
+1 s each. Each is run ``--repeat`` times (default 3): the first run is cold (the bodies' bound
+tables are built), and this machine's speed drifts, so the best and the median are printed
+too. The bench layout is invented for the benchmark: discs and blocks of N35-N52 and ferrite
+spaced along a 2 m bench.
 """
 from __future__ import annotations
 
 import argparse
 import time
+from pathlib import Path
 
 import numpy as np
 
 from hazards.thresholds import effective_thresholds
-from planner.calculations.keep_out import KEEP_OUT_THRESHOLDS, field_thresholds
+from planner.calculations.keep_out import KEEP_OUT_THRESHOLDS, field_thresholds, keep_out_distances
 from planner.physics.bodies import MagnetBody, rotation_from_axis
 from planner.physics.zones import available_workers, field_contours, keep_out_table
+from planner.setup import SetupError, load_setup, site_rules_of
 from planner.setup.model import SiteRules
 
 #: The distinct field values [T] that get a keep-out distance with no site overrides, taken from
@@ -46,6 +52,17 @@ def layout(count, seed=5):
                               diameter=rng.uniform(5e-3, 25e-3), height=rng.uniform(3e-3, 12e-3))
         bodies.append(body)
     return bodies
+
+
+def largest_example():
+    """(file name, Setup) of the example in setups/ with the most magnets."""
+    examples = []
+    for path in sorted((Path(__file__).resolve().parent.parent / "setups").glob("*.yaml")):
+        try:
+            examples.append((path.name, load_setup(path)))
+        except SetupError:  # the site-rules example is not a setup
+            continue
+    return max(examples, key=lambda item: len(item[1].magnets))
 
 
 def timed(repeat, work):
@@ -75,6 +92,12 @@ def main():
     options = parser.parse_args()
     bodies = layout(options.magnets)
     workers = available_workers() if options.workers is None else options.workers
+
+    name, example = largest_example()
+    thresholds = effective_thresholds(site_rules_of(example))
+    rows, seconds = timed(options.repeat, lambda: keep_out_distances(example, thresholds))
+    print(f"keep-out, largest example ({name}: {len(example.magnets)} magnets x "
+          f"{len({row.threshold_T for row in rows})} thresholds, as assess works them out): {summary(seconds)}")
 
     radii, seconds = timed(options.repeat, lambda: keep_out_table(bodies, DEFAULT_THRESHOLDS, workers=workers))
     print(f"keep-out, {len(bodies)} magnets x {len(DEFAULT_THRESHOLDS)} thresholds, {workers} worker(s): "

@@ -28,7 +28,7 @@ from planner.physics.zones import bounds, shell
 from planner.physics.zones.bounds import field_with_error
 from planner.physics.zones.certify import certified_depth
 from planner.physics.zones.sampling import (
-    cone_of_triangle, fibonacci_directions, icosahedron_triangles, subdivide)
+    cone_of_triangle, fibonacci_directions, geometric_steps, icosahedron_triangles, subdivide)
 
 __all__ = ["keep_out_radius", "keep_out_radii", "farthest_start_radius", "farthest_start_radii"]
 
@@ -130,11 +130,11 @@ def farthest_start_radii(bodies: list[MagnetBody], index: int, thresholds, table
     high = 2 * low
     while bound(high) >= thresholds[open_].min():
         high *= 2
-    nodes = low * (high / low) ** np.linspace(0.0, 1.0, GRID_NODES)
+    nodes = geometric_steps(low, high, GRID_NODES)
     values = bound(nodes)
     # the last node still at or above each threshold (the first node is, for open ones)
     last = np.array([np.flatnonzero(values >= t)[-1] for t in thresholds[open_]])
-    fine = nodes[last, None] * (nodes[last + 1, None] / nodes[last, None]) ** np.linspace(0.0, 1.0, GRID_NODES)
+    fine = geometric_steps(nodes[last], nodes[last + 1], GRID_NODES)
     below = bound(fine) < thresholds[open_, None]  # the coarse node last + 1 is below: so is fine[:, -1]
     result[open_] = fine[np.arange(len(last)), np.argmax(below, axis=1)]
     return result
@@ -301,7 +301,7 @@ def _face_paths_near(table, index, points, outer, samples=10):
         return none
     along, start, row, half = along[fits] / start[fits, None], start[fits], row[fits], half[fits]
     end = np.sqrt(np.maximum(outer**2 - half**2, start**2))
-    steps = start[:, None] * (end / start)[:, None] ** np.linspace(0.0, 1.0, samples)
+    steps = geometric_steps(start, end, samples)
     return cell.feet[row], along, steps, half
 
 
@@ -320,19 +320,12 @@ def _lower_at(bodies, index, points, allowed_error, table):
     return lower
 
 
-def _geometric_radii(floor, outer, samples):
-    """``samples`` radii [m] in geometric progression from ``floor`` to ``outer`` (scalar
-    or (n,), giving (samples,) or (n, samples))."""
-    fractions = np.linspace(0.0, 1.0, samples)
-    return floor * (np.asarray(outer, dtype=float)[..., None] / floor) ** fractions
-
-
 def _probe_paths(bodies, index, axes, radii, inner, samples=10):
     """Rays along ``axes`` (n, 3) from ``inner`` [m] (or the bounding radius) out to ``radii``
     (n,) [m], geometric samples, for :class:`_PathSamples`; only the rays that go outward."""
     floor = max(bodies[index].bounding_radius * (1 + 1e-6), inner)
     outward = radii > floor
-    steps = _geometric_radii(floor, radii[outward], samples).reshape(-1, samples)
+    steps = geometric_steps(floor, radii[outward], samples).reshape(-1, samples)
     return np.broadcast_to(bodies[index].center, (len(steps), 3)), axes[outward], steps, np.zeros(len(steps))
 
 
@@ -452,11 +445,8 @@ class _PathSamples:
 
 def _ray_paths(bodies, index, reach, count=RAYS, samples=16):
     """``count`` rays from the centre, sampled geometrically from the bounding radius out to
-    ``reach`` [m]: (origins, directions, steps, offsets) for :class:`_PathSamples`."""
-    directions = fibonacci_directions(count)
-    floor = bodies[index].bounding_radius * (1 + 1e-6)
-    steps = np.broadcast_to(_geometric_radii(floor, max(reach, floor), samples), (count, samples))
-    return np.broadcast_to(bodies[index].center, (count, 3)), directions, steps, np.zeros(count)
+    ``reach`` [m] (:func:`_probe_paths` along evenly spread directions)."""
+    return _probe_paths(bodies, index, fibonacci_directions(count), np.full(count, float(reach)), 0.0, samples)
 
 
 def _face_paths(table, index, reach, sectors=FACE_PATHS, samples=6):
@@ -472,7 +462,7 @@ def _face_paths(table, index, reach, sectors=FACE_PATHS, samples=6):
     half = 0.5 * cell.gaps[row]
     directions = np.cos(sector)[:, None] * cell.e1[row] + np.sin(sector)[:, None] * cell.e2[row]
     floor = half * (1 + 1e-6)
-    distance = floor[:, None] * (reach / floor)[:, None] ** np.linspace(0.0, 1.0, samples)
+    distance = geometric_steps(floor, reach, samples)
     steps = np.sqrt(np.maximum(distance**2 - half[:, None]**2, 0.0))
     return cell.feet[row], directions, steps, half
 

@@ -1,4 +1,4 @@
-"""Direction sets on the unit sphere with known coverage.
+"""Direction sets on the unit sphere with known coverage, and geometric steps of distance.
 
 A spherical triangle with vertices v1, v2, v3 lies inside the cap about its circumcentre
 direction n with half-angle delta = angle(n, v1): a point of the triangle is
@@ -33,6 +33,17 @@ def _icosahedron(level):
         triangles = subdivide(triangles)
     triangles.setflags(write=False)
     return triangles
+
+
+def geometric_steps(start, end, count: int) -> np.ndarray:
+    """``count`` values in geometric progression from ``start`` to ``end`` (each scalar or (n,),
+    broadcast), giving (count,) or (n, count): start * (end / start)^f for f = 0 .. 1 evenly.
+
+    >>> geometric_steps(1.0, 8.0, 4).round(12).tolist()
+    [1.0, 2.0, 4.0, 8.0]
+    """
+    start = np.asarray(start, dtype=float)[..., None]
+    return start * (np.asarray(end, dtype=float)[..., None] / start) ** np.linspace(0.0, 1.0, count)
 
 
 def icosahedron_triangles(level: int) -> np.ndarray:

@@ -80,7 +80,7 @@ from planner.physics.bodies import plane_basis
 from planner.physics.zones.bounds import (K, BodyTable, body_table, cell_field_bounds, derivative_bounds,
                                           dipole_remainder, dipole_sums)
 from planner.physics.zones.certify import LocalModel, local_model, patch_below
-from planner.physics.zones.sampling import child_indices, icosahedron_cones
+from planner.physics.zones.sampling import child_indices, geometric_steps, icosahedron_cones
 
 __all__ = ["ShellOutcome", "source_free", "clipped_caps", "dipole_jacobian_on_sphere", "prove_beyond",
            "prove_all_beyond", "prove_many"]
@@ -376,7 +376,7 @@ def _face_cells(cell, radius, outer, limits=None):
         if low >= end:
             continue
         rings = max(int(np.ceil(np.log(end / low) / np.log(FACE_RING_RATIO))), 1)
-        distances = low * (end / low) ** np.linspace(0.0, 1.0, rings + 1)
+        distances = geometric_steps(low, end, rings + 1)
         s = np.sqrt(np.maximum(distances**2 - half**2, 0.0))
         phi = np.linspace(0.0, 2 * np.pi, FACE_SECTORS + 1)
         ring, sector = np.meshgrid(np.arange(rings), np.arange(FACE_SECTORS), indexing="ij")

@@ -424,13 +424,16 @@ def test_clipped_caps_hold_the_part_of_each_cap_inside_the_face():
 
 
 def test_dipole_jacobian_on_a_sphere_is_the_derivative_of_the_dipole_field():
-    # Independent computation: central differences (step 1e-6 R) of the point-dipole field of
-    # planner.physics.fields.sphere (Jackson eq. 5.56) at c + R u.
+    # The Jacobian of bounds.dipole_sums, which the field model uses for its dipoles and whose
+    # closed form the cap bound's own-dipole term rests on, at c + R u. Independent
+    # computation: central differences (step 1e-6 R) of the point-dipole field of
+    # planner.physics.fields.sphere (Jackson eq. 5.56).
     from planner.physics.fields.sphere import dipole_field
+    from planner.physics.zones.bounds import dipole_sums
 
     moment, radius = np.array([0.3, -1.1, 0.7]), 0.07
     axes = random_directions(20)
-    jacobian = shell.dipole_jacobian_on_sphere(moment, radius, axes)
+    jacobian = dipole_sums(radius * axes[:, None, :], np.full((len(axes), 1), 1.0 / radius), moment[None])[1]
     h = 1e-6 * radius
     for axis, ours in zip(axes, jacobian):
         point = radius * axis

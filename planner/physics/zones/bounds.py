@@ -366,8 +366,7 @@ def model_field(bodies, points, far, table=None, distance=None):
     rows = max(_DENSE_PAIRS // max(len(bodies), 1), 1)
     for start in range(0, len(points), rows):
         span = slice(start, start + rows)
-        total[span] = _far_dipoles_dense(points[span], far[span], table,
-                                         None if distance is None else distance[span])
+        total[span] = far_dipoles(points[span], far[span], table, None if distance is None else distance[span])
     for i in np.flatnonzero(~far.all(axis=0)):  # the bodies exact somewhere
         near = ~far[:, i]
         if near.all():
@@ -385,14 +384,15 @@ def model_field(bodies, points, far, table=None, distance=None):
 _DENSE_PAIRS = 12000
 
 
-def _far_dipoles_dense(points, far, table, distance=None):
-    """Summed point-dipole field (n, 3) [T] of the far pairs (:func:`dipole_sums`), in one set of
-    (n, b, 3) arrays."""
+def far_dipoles(points, far, table, distance=None, with_jacobian=False):
+    """Summed point-dipole field (n, 3) [T] of the (point, body) pairs in ``far`` (n, b), and with
+    ``with_jacobian`` their Jacobian (n, 3, 3) [T/m] (:func:`dipole_sums`), in one set of
+    (n, b, 3) arrays. ``distance``: the centre distances (n, b) [m], if the caller has them."""
     offset = points[:, None, :] - table.centres[None]
     if distance is None:
         distance = np.sqrt(np.sum(offset**2, axis=2))
     inverse = np.where(far, 1.0 / np.where(far, distance, 1.0), 0.0)  # 0 for the pairs left out
-    return dipole_sums(offset, inverse, table.vectors, with_jacobian=False)
+    return dipole_sums(offset, inverse, table.vectors, with_jacobian)
 
 
 def field_with_error(bodies, points, allowed_error, table=None, distance=None):

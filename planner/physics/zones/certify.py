@@ -51,7 +51,7 @@ from typing import NamedTuple
 import numpy as np
 
 from planner.physics.zones.bounds import (K, _ball_geometry, body_table, derivative_bounds, dipole_assignment,
-                                          dipole_sums, exact_body_field)
+                                          exact_body_field, far_dipoles)
 
 def _split_far(geometry, widest, centre_bounds, ratio=10.0):
     """Split the (point, body) pairs by how far the body is from each ball, widest radius ``widest``.
@@ -89,19 +89,6 @@ def _split_far(geometry, widest, centre_bounds, ratio=10.0):
             gather(reach, 0.0), gather(shift, 0.0), gather(flat, 0.0), gather(curved, 0.0),
             gather(series_row, -1.0), series)
     return near, at_centre, at_widest, nearest_far
-
-
-def dipole_field_and_jacobian(bodies, points, far, table=None, distance=None):
-    """Summed point-dipole field (n, 3) and Jacobian (n, 3, 3) [j, l] = dB_l/dx_j of the far pairs
-    (:func:`~planner.physics.zones.bounds.dipole_sums` of the bodies' moments at their centres)."""
-    if not far.any():
-        return np.zeros((len(points), 3)), np.zeros((len(points), 3, 3))
-    table = body_table(bodies, table)
-    offset = points[:, None, :] - table.centres[None]
-    if distance is None:
-        distance = np.sqrt(np.sum(offset**2, axis=2))
-    inverse = np.where(far, 1.0 / np.where(far, distance, 1.0), 0.0)  # 0 for the pairs left out
-    return dipole_sums(offset, inverse, table.vectors)
 
 
 class LocalModel(NamedTuple):
@@ -142,7 +129,7 @@ def local_model(bodies, points, allowed_error, table=None) -> LocalModel:
     distance = table.centre_distances(points)
     far, error, jacobian_error = dipole_assignment(bodies, points, allowed_error, table, distance)
     geometry = _ball_geometry(bodies, points, table, distance)
-    field, jacobian = dipole_field_and_jacobian(bodies, points, far, table, distance)
+    field, jacobian = far_dipoles(points, far, table, distance, with_jacobian=True)
     step = 1e-4 * np.maximum(np.min(np.maximum(geometry[1], geometry[0] - geometry[3]), axis=1), 1e-9)
     for i in np.flatnonzero(~far.all(axis=0)):  # the bodies exact at some point
         body, near = bodies[i], np.flatnonzero(~far[:, i])

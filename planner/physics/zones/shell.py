@@ -78,11 +78,11 @@ import numpy as np
 
 from planner.physics.bodies import plane_basis
 from planner.physics.zones.bounds import (K, BodyTable, body_table, cell_field_bounds, derivative_bounds,
-                                          dipole_remainder, dipole_sums)
+                                          dipole_remainder)
 from planner.physics.zones.certify import LocalModel, local_model, patch_below
 from planner.physics.zones.sampling import child_indices, geometric_steps, icosahedron_cones
 
-__all__ = ["ShellOutcome", "source_free", "clipped_caps", "dipole_jacobian_on_sphere", "prove_beyond",
+__all__ = ["ShellOutcome", "source_free", "clipped_caps", "prove_beyond",
            "prove_all_beyond", "prove_many"]
 
 IGNORED_SHARE = 0.01  # of the threshold, for the bodies left out of the per-patch work
@@ -201,15 +201,6 @@ def source_free(table: BodyTable, index: int, radius: float) -> bool:
     others = np.arange(len(gaps)) != index
     clear = (reach < 0.5 * gaps) | (gaps + reach < radius)
     return bool(reach[index] < radius and np.all(clear[others]))
-
-
-def dipole_jacobian_on_sphere(moment, radius, axes):
-    """Jacobian (n, 3, 3) [T/m], [j, l] = dB_l/dx_j, of a point dipole ``moment`` (3,) [A m^2]
-    at c + R u for the unit ``axes`` u (n, 3) and ``radius`` R [m] (one value or (n,))
-    (:func:`~planner.physics.zones.bounds.dipole_sums` with the offsets and distances known)."""
-    radius = np.broadcast_to(np.asarray(radius, dtype=float), (len(axes),))
-    return dipole_sums(radius[:, None, None] * axes[:, None, :], 1.0 / radius[:, None],
-                       np.reshape(moment, (1, 3)))[1]
 
 
 def _dipole_cap_holds(model: LocalModel, moment, radius, axes, half_angles, rest_second, threshold):

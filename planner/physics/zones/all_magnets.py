@@ -87,8 +87,9 @@ def caps_first_many(bodies, indices, thresholds) -> list[MagnetProof]:
     """:func:`caps_first` for the bodies ``indices``; their sphere proofs share the steps of
     :func:`~planner.physics.zones.shell.prove_many` (a few large numpy calls for all of them)."""
     table = bounds.body_table(bodies)
-    checked = [_checked(bodies, index, thresholds) for index in indices]
-    thresholds = checked[0] if checked else np.atleast_1d(np.asarray(thresholds, dtype=float))
+    thresholds = np.atleast_1d(np.asarray(thresholds, dtype=float))
+    for index in indices:
+        _checked(bodies, index, thresholds)
     searched = []
     for index in indices:
         starts, hits = _starts_and_hits(bodies, index, thresholds, table)

@@ -640,8 +640,8 @@ def _verify(bodies, index, thresholds, radii, directions=120, table=None):
         value, error = field_with_error(bodies, points, GUARD_FIRST_ERROR * thresholds[owner], table, distance)
         close = np.flatnonzero(value + error >= thresholds[owner])
         if len(close):
-            value[close], error[close] = field_with_error(bodies, points[close], WITNESS_ERROR * thresholds[owner[close]],
-                                                          table, distance[close])
+            value[close], error[close] = field_with_error(
+                bodies, points[close], WITNESS_ERROR * thresholds[owner[close]], table, distance[close])
         reached = value + error >= thresholds[owner]
         if not reached.any():
             break

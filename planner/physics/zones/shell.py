@@ -225,7 +225,8 @@ def _dipole_cap_holds(model: LocalModel, moment, radius, axes, half_angles, rest
     # So A n = R DB n + (3 k / R^3)(5 (m.n) n - m), A w = R DB w across n, and the part of
     # A^T P across n is R (DB^T P) across n.
     jacobian, p0 = model.jacobian, model.field
-    a_n = radius[:, None] * np.einsum("nji,nj->ni", jacobian, n) + scale[:, None] * (5 * along_moment[:, None] * n - moment)
+    a_n = (radius[:, None] * np.einsum("nji,nj->ni", jacobian, n)
+           + scale[:, None] * (5 * along_moment[:, None] * n - moment))
     at_p = np.einsum("nji,ni->nj", jacobian, p0)
     at_p_across = radius[:, None] * (at_p - np.sum(at_p * n, axis=1)[:, None] * n)
     # the norm of A on the plane across n: the largest eigenvalue of the 2 x 2 Gram matrix
@@ -274,8 +275,8 @@ class _Task:
         cell = self.cell
         while self.outcome is None:
             if self.phase == "caps":
-                keep, axes, half_angles = _caps_in_cell(cell, self.radius,
-                                                        *(part[self.triangles] for part in icosahedron_cones(self.level)))
+                cones = (part[self.triangles] for part in icosahedron_cones(self.level))
+                keep, axes, half_angles = _caps_in_cell(cell, self.radius, *cones)
                 if keep.any():
                     self.triangles = self.triangles[keep]
                     points = cell.centre + self.radius * axes

@@ -88,6 +88,11 @@ class KeepOutJob:
             self._pool = None
 
 
+#: Magnets per group of neighbours, and the fewest groups (see magnet_groups).
+GROUP_MAGNETS = 5
+LEAST_GROUPS = 6
+
+
 def magnet_groups(bodies) -> list[list[int]]:
     """The magnets split into groups of neighbours, each proven in one worker's call.
 
@@ -98,9 +103,9 @@ def magnet_groups(bodies) -> list[list[int]]:
     groups of about ``GROUP_MAGNETS``, and into at least ``LEAST_GROUPS`` (so that the work
     still spreads evenly over a few cores); the groups with the most magnetic moment come
     first, as they take longest. The groups do not depend on the number of workers, so
-    neither do the distances. On the 30-magnet benchmark, groups of five took 0.59-0.61 s on 2 cores where one
-    magnet at a time took 0.68-0.70 s (alternating runs; groups of five magnets spread over
-    the bench instead of neighbours: 0.68 s).
+    neither do the distances. On the 30-magnet benchmark, groups of five took 0.59-0.61 s on
+    2 cores where one magnet at a time took 0.68-0.70 s (alternating runs; groups of five
+    magnets spread over the bench instead of neighbours: 0.68 s).
     """
     count = len(bodies)
     if not count:
@@ -112,10 +117,6 @@ def magnet_groups(bodies) -> list[list[int]]:
     groups = [[int(i) for i in part] for part in np.array_split(order, parts)]
     weight = [-sum(float(np.linalg.norm(bodies[i].moment)) for i in group) for group in groups]
     return [groups[k] for k in np.argsort(weight, kind="stable")]
-
-
-GROUP_MAGNETS = 5
-LEAST_GROUPS = 6
 
 
 def _gathered(count, groups, futures):
